@@ -1,0 +1,3 @@
+from matcheck.cli import main
+
+raise SystemExit(main())

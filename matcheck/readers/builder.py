@@ -1,0 +1,192 @@
+"""Assemble a :class:`~matcheck.model.Document` from the pieces a reader finds.
+
+Every reader feeds text as *runs* (a piece of text plus the emphasis it carries) to
+:class:`DocumentBuilder`. The builder owns what must be the same for every format, so that the
+same lesson read from DOCX, PDF or Markdown comes out the same:
+
+- Unicode and white space are normalised (NFC, non-breaking and other spaces become one plain
+  space, soft hyphens and zero-width characters go, runs of white space collapse to one);
+- emphasis spans are recomputed on the normalised text;
+- empty blocks are dropped;
+- block indices, paragraph ordinals and the enclosing section heading are assigned.
+"""
+
+from __future__ import annotations
+
+import unicodedata
+from collections.abc import Iterable
+
+from matcheck.model import Block, BlockKind, Document, Emphasis, Figure, Location, Span
+
+Run = tuple[str, frozenset[Emphasis]]
+
+NO_EMPHASIS: frozenset[Emphasis] = frozenset()
+
+# Characters that are not content: soft hyphen, zero-width space/joiners, word joiner, BOM.
+_INVISIBLE = dict.fromkeys(map(ord, "\u00ad\u200b\u200c\u200d\u2060\ufeff"))
+# Typographic ligatures that PDF text layers often keep as one code point.
+_LIGATURES = {
+    "\ufb00": "ff",
+    "\ufb01": "fi",
+    "\ufb02": "fl",
+    "\ufb03": "ffi",
+    "\ufb04": "ffl",
+    "\ufb05": "st",
+    "\ufb06": "st",
+}
+
+
+def normalize_text(text: str) -> str:
+    """Normalise one string the way block text is normalised (runs not needed)."""
+    return normalize_runs([(text, NO_EMPHASIS)])[0]
+
+
+def normalize_runs(runs: Iterable[Run]) -> tuple[str, tuple[Span, ...]]:
+    """Join runs into normalised block text and the emphasis spans over it."""
+    chars: list[str] = []
+    kinds: list[frozenset[Emphasis]] = []
+    pending_space = False
+    for raw, emphasis in runs:
+        text = unicodedata.normalize("NFC", raw).translate(_INVISIBLE)
+        for char in text:
+            char = _LIGATURES.get(char, char)
+            if char.isspace() or unicodedata.category(char) == "Zs":
+                pending_space = bool(chars)
+                continue
+            if pending_space:
+                chars.append(" ")
+                # A space between two emphasised pieces of one kind keeps the emphasis whole.
+                kinds.append(kinds[-1] & emphasis if kinds else NO_EMPHASIS)
+                pending_space = False
+            for piece in char:
+                chars.append(piece)
+                kinds.append(emphasis)
+    return "".join(chars), _spans(kinds)
+
+
+def _spans(kinds: list[frozenset[Emphasis]]) -> tuple[Span, ...]:
+    spans: list[Span] = []
+    for kind in Emphasis:
+        start: int | None = None
+        for index, char_kinds in enumerate([*kinds, NO_EMPHASIS]):
+            if kind in char_kinds and start is None:
+                start = index
+            elif kind not in char_kinds and start is not None:
+                spans.append(Span(start, index, kind))
+                start = None
+    spans.sort(key=lambda span: (span.start, span.end, span.kind))
+    return tuple(spans)
+
+
+class DocumentBuilder:
+    """Collect blocks and figures in reading order, then :meth:`build` the document."""
+
+    def __init__(self, path: str, format: str) -> None:
+        self.path = path
+        self.format = format
+        self._blocks: list[Block] = []
+        self._figures: list[Figure] = []
+        self._warnings: list[str] = []
+        self._excluded: list[str] = []
+        self._section: str | None = None
+        self._paragraphs = 0
+        self._groups = 0
+        self.pages: int | None = None
+
+    def new_group(self) -> int:
+        """A fresh id for a list or a table."""
+        self._groups += 1
+        return self._groups
+
+    def add_block(
+        self,
+        kind: BlockKind,
+        runs: Iterable[Run] | str,
+        *,
+        level: int = 0,
+        group: int | None = None,
+        page: int | None = None,
+        line: int | None = None,
+    ) -> Block | None:
+        """Add a block; returns it, or ``None`` when its text is empty after normalising."""
+        if isinstance(runs, str):
+            runs = [(runs, NO_EMPHASIS)]
+        text, spans = normalize_runs(runs)
+        if not text:
+            return None
+        if kind is BlockKind.HEADING:
+            self._section = text
+        ordinal = None
+        if kind is BlockKind.PARAGRAPH:
+            self._paragraphs += 1
+            ordinal = self._paragraphs
+        location = Location(len(self._blocks), page=page, line=line, section=self._section)
+        block = Block(kind, text, location, level, group, ordinal, spans)
+        self._blocks.append(block)
+        return block
+
+    def add_figure(
+        self,
+        source: str,
+        *,
+        width_px: int | None = None,
+        height_px: int | None = None,
+        display_width_cm: float | None = None,
+        display_height_cm: float | None = None,
+        alt_text: str = "",
+        caption: str = "",
+        remote: bool = False,
+        readable: bool = True,
+        page: int | None = None,
+        line: int | None = None,
+    ) -> Figure:
+        location = Location(len(self._blocks) - 1, page=page, line=line, section=self._section)
+        figure = Figure(
+            location,
+            source,
+            width_px,
+            height_px,
+            display_width_cm,
+            display_height_cm,
+            normalize_text(alt_text),
+            normalize_text(caption),
+            remote,
+            readable,
+        )
+        self._figures.append(figure)
+        return figure
+
+    def set_caption(self, figure_index: int, caption: str) -> None:
+        """Attach a caption found after its figure (as in most layouts)."""
+        figure = self._figures[figure_index]
+        from dataclasses import replace
+
+        self._figures[figure_index] = replace(figure, caption=normalize_text(caption))
+
+    @property
+    def figures(self) -> tuple[Figure, ...]:
+        return tuple(self._figures)
+
+    @property
+    def blocks(self) -> tuple[Block, ...]:
+        return tuple(self._blocks)
+
+    def warn(self, message: str) -> None:
+        if message not in self._warnings:
+            self._warnings.append(message)
+
+    def exclude(self, what: str) -> None:
+        """Record something deliberately left out of the lesson text."""
+        if what not in self._excluded:
+            self._excluded.append(what)
+
+    def build(self) -> Document:
+        return Document(
+            path=self.path,
+            format=self.format,
+            blocks=tuple(self._blocks),
+            figures=tuple(self._figures),
+            pages=self.pages,
+            excluded=tuple(self._excluded),
+            warnings=tuple(self._warnings),
+        )

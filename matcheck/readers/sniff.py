@@ -1,0 +1,88 @@
+"""Tell a file's format from its first bytes, not from its name."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from matcheck.errors import EncryptedFile, UnsupportedFormat
+
+# Extension -> the format it promises.
+EXTENSIONS = {
+    ".docx": "docx",
+    ".pdf": "pdf",
+    ".md": "markdown",
+    ".markdown": "markdown",
+    ".mdown": "markdown",
+    ".txt": "text",
+    ".text": "text",
+}
+
+_ZIP_MAGIC = (b"PK\x03\x04", b"PK\x05\x06")
+# OLE2 compound file: legacy .doc, or an Office file encrypted with a password.
+_OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
+_BINARY_MAGIC = {
+    b"\x89PNG": "a PNG image",
+    b"\xff\xd8\xff": "a JPEG image",
+    b"GIF8": "a GIF image",
+    b"{\\rtf": "an RTF document",
+    b"\x1f\x8b": "a gzip archive",
+    b"7z\xbc\xaf": "a 7-Zip archive",
+    b"Rar!": "a RAR archive",
+}
+
+
+def sniff_format(head: bytes, path: Path) -> str:
+    """Return ``'pdf'``, ``'docx'``, ``'markdown'`` or ``'text'`` for a file's first bytes.
+
+    Raises :class:`UnsupportedFormat` or :class:`EncryptedFile` with a message that names
+    what the file is instead.
+    """
+    shown = str(path)
+    # A PDF header may follow a little junk (the PDF spec allows it within the first 1024 bytes).
+    if b"%PDF-" in head[:1024]:
+        return "pdf"
+    if head.startswith(_ZIP_MAGIC):
+        return "docx"
+    if head.startswith(_OLE_MAGIC):
+        if b"E\x00n\x00c\x00r\x00y\x00p\x00t\x00e\x00d\x00P\x00a\x00c\x00k\x00a\x00g\x00e" in head:
+            raise EncryptedFile(
+                "the Word file is password-protected",
+                path=shown,
+                hint="save an unprotected copy and check that",
+            )
+        # The directory of an OLE file need not sit in the first bytes; legacy .doc or an
+        # encrypted .docx are the two things a lesson file in this container can be.
+        if path.suffix.lower() == ".docx":
+            raise EncryptedFile(
+                "the file is an encrypted (password-protected) Office document, not a DOCX package",
+                path=shown,
+                hint="save an unprotected copy and check that",
+            )
+        raise UnsupportedFormat(
+            "this is a legacy Word .doc (or other OLE) file",
+            path=shown,
+            hint="save it as .docx",
+        )
+    for magic, what in _BINARY_MAGIC.items():
+        if head.startswith(magic):
+            raise UnsupportedFormat(f"this is {what}, not a lesson document", path=shown)
+    if _looks_binary(head):
+        raise UnsupportedFormat(
+            "the file is binary, not DOCX, PDF, Markdown or text", path=shown
+        )
+    if EXTENSIONS.get(path.suffix.lower()) == "text":
+        return "text"
+    if EXTENSIONS.get(path.suffix.lower()) in {"markdown", None}:
+        return "markdown" if path.suffix.lower() in EXTENSIONS else "text"
+    # A .docx or .pdf name over text content: read it as text (with the caller's warning).
+    return "text"
+
+
+def _looks_binary(head: bytes) -> bool:
+    if not head:
+        return False
+    if b"\x00" in head and not (head.startswith((b"\xff\xfe", b"\xfe\xff"))):
+        return True
+    # Control characters other than tab, newline, carriage return, form feed.
+    controls = sum(1 for byte in head if byte < 32 and byte not in (9, 10, 12, 13))
+    return controls / len(head) > 0.05
