@@ -50,19 +50,23 @@ class Location:
     ``block`` is the 0-based index of the block in ``Document.blocks`` (for a figure: the
     index of the block it follows, or -1 before the first block). ``page`` is 1-based and
     known for PDFs; ``line`` is the 1-based source line for Markdown and text; ``section`` is
-    the text of the nearest heading above, ``None`` before the first heading.
+    the text of the nearest heading above, ``None`` before the first heading; ``paragraph``
+    numbers the body paragraphs of the document (1-based; paragraphs only).
     """
 
     block: int
     page: int | None = None
     line: int | None = None
     section: str | None = None
+    paragraph: int | None = None
 
     def describe(self) -> str:
-        """A short human-readable place, e.g. ``'§ Cables, page 2'``."""
+        """A short human-readable place, e.g. ``'§ Cables, paragraph 4, page 2'``."""
         parts = []
         if self.section:
             parts.append(f"§ {self.section}")
+        if self.paragraph is not None:
+            parts.append(f"paragraph {self.paragraph}")
         if self.page is not None:
             parts.append(f"page {self.page}")
         if self.line is not None:
@@ -79,8 +83,6 @@ class Block:
     ``level`` is the heading level (1 = top) for headings and the nesting depth (1 = top) for
     list items; 0 otherwise. ``group`` identifies the list or table a list item or table cell
     belongs to (equal numbers: same list or table), so lists and tables can be counted.
-    ``ordinal`` numbers the paragraphs of the document (1-based, paragraphs only) so a
-    finding can say "paragraph 12".
     """
 
     kind: BlockKind
@@ -88,7 +90,6 @@ class Block:
     location: Location
     level: int = 0
     group: int | None = None
-    ordinal: int | None = None
     emphasis: tuple[Span, ...] = ()
 
 

@@ -120,8 +120,10 @@ class DocumentBuilder:
         if kind is BlockKind.PARAGRAPH:
             self._paragraphs += 1
             ordinal = self._paragraphs
-        location = Location(len(self._blocks), page=page, line=line, section=self._section)
-        block = Block(kind, text, location, level, group, ordinal, spans)
+        location = Location(
+            len(self._blocks), page=page, line=line, section=self._section, paragraph=ordinal
+        )
+        block = Block(kind, text, location, level, group, spans)
         self._blocks.append(block)
         return block
 

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import codecs
+from collections.abc import Sequence
 from pathlib import Path
 
 from matcheck.errors import EncryptedFile, UnsupportedFormat
@@ -20,6 +22,14 @@ EXTENSIONS = {
 _ZIP_MAGIC = (b"PK\x03\x04", b"PK\x05\x06")
 # OLE2 compound file: legacy .doc, or an Office file encrypted with a password.
 _OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
+# Byte-order marks of text encodings whose characters span several bytes. UTF-32 first: its
+# little-endian mark begins with the UTF-16 one.
+_WIDE_BOMS = (
+    (codecs.BOM_UTF32_LE, "utf-32"),
+    (codecs.BOM_UTF32_BE, "utf-32"),
+    (codecs.BOM_UTF16_LE, "utf-16"),
+    (codecs.BOM_UTF16_BE, "utf-16"),
+)
 _BINARY_MAGIC = {
     b"\x89PNG": "a PNG image",
     b"\xff\xd8\xff": "a JPEG image",
@@ -39,7 +49,8 @@ def sniff_format(head: bytes, path: Path) -> str:
     """
     shown = str(path)
     # A PDF header may follow a little junk (the PDF spec allows it within the first 1024 bytes).
-    if b"%PDF-" in head[:1024]:
+    marker = head.find(b"%PDF-", 0, 1024)
+    if marker == 0 or (marker > 0 and _looks_binary(head[:marker])):
         return "pdf"
     if head.startswith(_ZIP_MAGIC):
         return "docx"
@@ -81,8 +92,20 @@ def sniff_format(head: bytes, path: Path) -> str:
 def _looks_binary(head: bytes) -> bool:
     if not head:
         return False
-    if b"\x00" in head and not (head.startswith((b"\xff\xfe", b"\xfe\xff"))):
+    for bom, codec in _WIDE_BOMS:
+        if head.startswith(bom):
+            # Count controls in the decoded characters: in UTF-16/32 every ASCII letter brings
+            # zero bytes, which would otherwise make any such text look binary. "replace"
+            # absorbs a code unit cut off at the end of the head.
+            return _control_share([ord(char) for char in head.decode(codec, "replace")]) > 0.05
+    if b"\x00" in head:
         return True
-    # Control characters other than tab, newline, carriage return, form feed.
-    controls = sum(1 for byte in head if byte < 32 and byte not in (9, 10, 12, 13))
-    return controls / len(head) > 0.05
+    return _control_share(head) > 0.05
+
+
+def _control_share(codes: Sequence[int]) -> float:
+    """Share of control characters other than tab, newline, carriage return, form feed."""
+    if not codes:
+        return 0.0
+    controls = sum(1 for code in codes if code < 32 and code not in (9, 10, 12, 13))
+    return controls / len(codes)

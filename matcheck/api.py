@@ -1,0 +1,115 @@
+"""The one orchestrator: read → analyse → measure → compare. Returns data, renders nothing.
+
+The CLI and any Python caller use these functions; reports render what they return.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass
+from pathlib import Path
+
+from matcheck.errors import UsageError
+from matcheck.findings import Condition, Report
+from matcheck.limits import DEFAULT_LIMITS, ReadLimits
+from matcheck.measures.base import Profile
+from matcheck.model import Document
+from matcheck.settings import Settings
+
+
+@dataclass(frozen=True, slots=True)
+class Version:
+    """A named lesson version made of one or more files (parts, in order)."""
+
+    name: str
+    paths: tuple[Path, ...]
+
+
+def read_version(version: Version, limits: ReadLimits = DEFAULT_LIMITS) -> Document:
+    """Read a version; several parts are joined into one document in order."""
+    from matcheck.readers import read
+    from matcheck.readers.join import join_documents
+
+    documents = [read(path, limits) for path in version.paths]
+    return documents[0] if len(documents) == 1 else join_documents(documents)
+
+
+def profile_document(document: Document, settings: Settings) -> Profile:
+    from matcheck.language.analysis import analyze
+    from matcheck.measures import measure
+
+    return measure(analyze(document), settings)
+
+
+def profile_files(
+    paths: Sequence[Path], settings: Settings, limits: ReadLimits = DEFAULT_LIMITS
+) -> list[Profile]:
+    from matcheck.readers import read
+
+    return [profile_document(read(path, limits), settings) for path in paths]
+
+
+def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[str]:
+    """Names for versions given as files: ``--names``, else stems, else file names."""
+    if names:
+        if len(names) != len(paths):
+            raise UsageError(f"--names gives {len(names)} names for {len(paths)} files")
+        if len(set(names)) != len(names):
+            raise UsageError("--names must be all different")
+        return list(names)
+    stems = [path.stem for path in paths]
+    if len(set(stems)) == len(stems):
+        return stems
+    files = [path.name for path in paths]
+    if len(set(files)) == len(files):
+        return files
+    return [str(path) for path in paths]
+
+
+def compare_versions(
+    versions: Sequence[Version],
+    *,
+    reference: str | None = None,
+    manipulated: Sequence[str] = (),
+    tolerance_overrides: Sequence[str] = (),
+    settings: Settings | None = None,
+    limits: ReadLimits = DEFAULT_LIMITS,
+) -> Report:
+    """Compare every version with the reference (the first unless named)."""
+    from matcheck.compare.engine import compare_profiles, expand_manipulated, known_dimensions
+    from matcheck.compare.tolerances import parse_tolerances
+
+    settings = settings or Settings()
+    if len(versions) < 2:
+        raise UsageError("compare needs at least two lesson versions")
+    names = [version.name for version in versions]
+    reference = reference or names[0]
+    if reference not in names:
+        raise UsageError(f"--reference {reference!r} is not one of the versions: {', '.join(names)}")
+    # Validate options before the (slower) reading.
+    expand_manipulated(manipulated)
+    tolerances = parse_tolerances(tolerance_overrides, known_dimensions())
+    profiles: dict[str, Profile] = {}
+    conditions = []
+    for version in versions:
+        document = read_version(version, limits)
+        profiles[version.name] = profile_document(document, settings)
+        conditions.append(
+            Condition(
+                name=version.name,
+                paths=tuple(str(path) for path in version.paths),
+                format=document.format,
+                is_reference=version.name == reference,
+                warnings=document.warnings,
+                excluded=document.excluded,
+            )
+        )
+    findings, spreads = compare_profiles(profiles, reference, manipulated, tolerances)
+    return Report(
+        conditions=tuple(conditions),
+        reference=reference,
+        manipulated=tuple(manipulated),
+        findings=findings,
+        spreads=spreads,
+        words_per_minute=settings.words_per_minute,
+    )

@@ -1,0 +1,234 @@
+"""The command line: parse options, call :mod:`matcheck.api`, render, choose the exit status.
+
+Nothing here reads, measures or compares. Heavy libraries are imported by the commands, not
+at start-up, so ``matcheck --help`` is instant. Exit statuses (one place, matcheck.errors):
+0 nothing differs, 1 something differs, 2 bad input or usage, 3 a bug.
+"""
+
+from __future__ import annotations
+
+import sys
+import traceback
+from collections.abc import Sequence
+from enum import StrEnum
+from pathlib import Path
+from typing import Annotated
+
+import typer
+
+from matcheck import __version__
+from matcheck.errors import EXIT_BUG, EXIT_DIFFERS, EXIT_INPUT, EXIT_MATCHED, MatcheckError, UsageError
+
+app = typer.Typer(
+    name="matcheck",
+    help=(
+        "Check that the lesson versions of an experiment differ only in the intended "
+        "manipulation. Reads DOCX, PDF, Markdown and text."
+    ),
+    add_completion=False,
+    no_args_is_help=True,
+    pretty_exceptions_enable=False,
+    rich_markup_mode=None,
+)
+_state = {"debug": False}
+
+
+class CompareFormat(StrEnum):
+    table = "table"
+    json = "json"
+    markdown = "markdown"
+
+
+class ProfileFormat(StrEnum):
+    table = "table"
+    json = "json"
+
+
+def _version(value: bool) -> None:
+    if value:
+        typer.echo(f"matcheck {__version__}")
+        raise typer.Exit()
+
+
+@app.callback()
+def _root(
+    debug: Annotated[bool, typer.Option("--debug", help="Show the traceback of an error.")] = False,
+    version: Annotated[
+        bool, typer.Option("--version", callback=_version, is_eager=True, help="Show the version.")
+    ] = False,
+) -> None:
+    _state["debug"] = debug
+
+
+Files = Annotated[list[Path], typer.Argument(help="Lesson files (DOCX, PDF, Markdown, text).")]
+Wpm = Annotated[
+    float,
+    typer.Option("--wpm", help="Reading rate for reading time (default: Brysbaert 2019, 238)."),
+]
+Output = Annotated[
+    Path | None, typer.Option("--output", "-o", help="Write the report to this file.")
+]
+
+
+@app.command()
+def profile(
+    files: Files,
+    format: Annotated[ProfileFormat, typer.Option("--format", "-f")] = ProfileFormat.table,
+    wpm: Wpm = 238.0,
+    output: Output = None,
+) -> int:
+    """Measure each lesson file on every dimension."""
+    from matcheck.api import profile_files
+    from matcheck.settings import Settings
+
+    profiles = profile_files(files, Settings(words_per_minute=wpm))
+    if format is ProfileFormat.json:
+        from matcheck.report.profile import render_profiles_json
+
+        _emit(render_profiles_json(profiles), output, files)
+    else:
+        from matcheck.report.profile import render_profiles_table
+
+        _emit_rich(lambda console: render_profiles_table(profiles, console), output, files)
+    return EXIT_MATCHED
+
+
+@app.command()
+def compare(
+    files: Files,
+    manipulated: Annotated[
+        list[str] | None,
+        typer.Option(
+            "--manipulated",
+            "-m",
+            help="A group (length, readability, content, figures, structure, signaling) "
+            "or a measure id that the design varies on purpose. Repeatable.",
+        ),
+    ] = None,
+    names: Annotated[
+        str | None, typer.Option("--names", help="Comma-separated names for the versions.")
+    ] = None,
+    reference: Annotated[
+        str | None, typer.Option("--reference", help="The version the others are compared with.")
+    ] = None,
+    tolerance: Annotated[
+        list[str] | None,
+        typer.Option("--tolerance", "-t", help="MEASURE=VALUE or MEASURE=VALUE%. Repeatable."),
+    ] = None,
+    wpm: Wpm = 238.0,
+    format: Annotated[CompareFormat, typer.Option("--format", "-f")] = CompareFormat.table,
+    output: Output = None,
+) -> int:
+    """Compare lesson versions; report every difference beyond the declared manipulation."""
+    from matcheck.api import Version, compare_versions, version_names
+    from matcheck.settings import Settings
+
+    name_list = [n.strip() for n in names.split(",")] if names else None
+    labels = version_names(files, name_list)
+    versions = [Version(label, (path,)) for label, path in zip(labels, files, strict=True)]
+    report = compare_versions(
+        versions,
+        reference=reference,
+        manipulated=manipulated or (),
+        tolerance_overrides=tolerance or (),
+        settings=Settings(words_per_minute=wpm),
+    )
+    if format is CompareFormat.json:
+        from matcheck.report.json_report import render_json
+
+        _emit(render_json(report), output, files)
+    elif format is CompareFormat.markdown:
+        from matcheck.report.markdown import render_markdown
+
+        _emit(render_markdown(report), output, files)
+    else:
+        from matcheck.report.table import render_table
+
+        _emit_rich(lambda console: render_table(report, console), output, files)
+    return EXIT_DIFFERS if report.differs else EXIT_MATCHED
+
+
+@app.command()
+def measures() -> int:
+    """List every measure with its id, group, unit and default tolerance."""
+    from rich.console import Console
+    from rich.table import Table
+
+    from matcheck.compare.engine import CONTENT_DIMENSIONS
+    from matcheck.compare.tolerances import DEFAULT_TOLERANCES
+    from matcheck.measures import CATALOGUE
+
+    table = Table(header_style="bold")
+    for column in ("Id", "Group", "Unit", "Default tolerance", "What it is"):
+        table.add_column(column)
+    for spec in CATALOGUE.values():
+        tol = DEFAULT_TOLERANCES.get(spec.id)
+        table.add_row(spec.id, spec.group.value, spec.unit, tol.describe(spec.unit) if tol else "—", spec.description)
+    for dimension, unit in CONTENT_DIMENSIONS.items():
+        tol = DEFAULT_TOLERANCES[dimension]
+        table.add_row(dimension, "content", unit, tol.describe(unit), tol.reason)
+    Console().print(table)
+    return EXIT_MATCHED
+
+
+def _emit(text: str, output: Path | None, inputs: Sequence[Path]) -> None:
+    if output is None:
+        sys.stdout.write(text)
+        return
+    from matcheck.output import write_output
+
+    write_output(output, text, inputs)
+
+
+def _emit_rich(render: object, output: Path | None, inputs: Sequence[Path]) -> None:
+    from rich.console import Console
+
+    if output is None:
+        render(Console())  # type: ignore[operator]
+        return
+    console = Console(record=True, width=140, file=_Null(), color_system=None)
+    render(console)  # type: ignore[operator]
+    _emit(console.export_text(), output, inputs)
+
+
+class _Null:
+    def write(self, text: str) -> int:
+        return len(text)
+
+    def flush(self) -> None:
+        pass
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the CLI; returns the exit status instead of raising SystemExit."""
+    import click
+
+    args = list(sys.argv[1:] if argv is None else argv)
+    _state["debug"] = "--debug" in args
+    try:
+        result = app(args=args, prog_name="matcheck", standalone_mode=False)
+    except click.exceptions.Exit as stop:
+        return int(stop.exit_code)
+    except click.ClickException as problem:
+        problem.show()
+        return EXIT_INPUT
+    except click.exceptions.Abort:
+        sys.stderr.write("matcheck: interrupted\n")
+        return EXIT_INPUT
+    except MatcheckError as problem:
+        if _state["debug"]:
+            traceback.print_exc()
+        sys.stderr.write(f"matcheck: error: {problem}\n")
+        return problem.exit_code
+    except Exception as bug:  # noqa: BLE001 - the one place a bug becomes exit status 3
+        if _state["debug"]:
+            traceback.print_exc()
+        sys.stderr.write(
+            f"matcheck: internal error ({type(bug).__name__}: {bug}); this is a bug, please "
+            "report it with the input if you can (run with --debug for the traceback)\n"
+        )
+        return EXIT_BUG
+    return int(result) if isinstance(result, int) else EXIT_MATCHED
+
+
+__all__ = ["UsageError", "app", "main"]

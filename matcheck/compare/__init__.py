@@ -1,0 +1,1 @@
+"""Compare lesson versions: tolerances, verdicts, content alignment."""

@@ -1,0 +1,79 @@
+"""The verdict on one measure for one pair of versions.
+
+``decide`` is pure: values, tolerance and whether the measure is manipulated in, a
+:class:`~matcheck.findings.Status` and its reason out. Mean sentence length gets a statistical
+verdict on top of the descriptive one, because it is a mean over few, widely varying units:
+
+- the sentences *are* the versions (not a sample of them), so a mean within the tolerance is
+  *matched*; the report adds the two one-sided Welch tests (TOST; Schuirmann 1987,
+  Lakens 2017) with the tolerance as bounds, for the methods section;
+- a mean beyond the tolerance is *differs* when a Welch t-test at α = .05 shows a difference,
+  and *inconclusive* when neither equivalence (TOST cannot pass with the estimate outside the
+  bounds) nor difference can be established: too few, too varied sentences to tell.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+from matcheck.findings import Status, StatTest, Tolerance
+
+ALPHA = 0.05
+
+
+def decide(
+    reference: float | None,
+    value: float | None,
+    tolerance: Tolerance,
+    *,
+    intended: bool,
+    intended_by: str = "",
+) -> tuple[Status, str]:
+    if intended:
+        return Status.INTENDED, f"manipulated ({intended_by})" if intended_by else "manipulated"
+    if reference is None or value is None:
+        return Status.INCONCLUSIVE, "not measurable in every version"
+    difference = value - reference
+    allowed = tolerance.allowed(reference)
+    if abs(difference) <= allowed + 1e-12:
+        return Status.MATCHED, "within tolerance"
+    return Status.DIFFERS, "beyond tolerance: a possible confound"
+
+
+def decide_mean(
+    reference_sample: Sequence[float],
+    sample: Sequence[float],
+    tolerance: Tolerance,
+) -> tuple[Status, str, StatTest | None]:
+    """Verdict on a difference of means (the sentences of each version are its sample)."""
+    import numpy as np
+
+    a = np.asarray(reference_sample, dtype=float)
+    b = np.asarray(sample, dtype=float)
+    if not a.size or not b.size:
+        return Status.INCONCLUSIVE, "no sentences in one version", None
+    bound = tolerance.allowed(float(a.mean()))
+    difference = float(b.mean() - a.mean())
+    if sorted(a.tolist()) == sorted(b.tolist()):
+        return Status.MATCHED, "identical sentence lengths", None
+    if a.size < 2 or b.size < 2 or (float(a.var()) == 0.0 and float(b.var()) == 0.0):
+        status = Status.MATCHED if abs(difference) <= bound else Status.DIFFERS
+        return status, "too few or constant sentence lengths: compared as they are", None
+    from scipy import stats
+    from statsmodels.stats.weightstats import ttost_ind
+
+    if abs(difference) <= bound:
+        p_tost = float(ttost_ind(b, a, -bound, bound, usevar="unequal")[0])
+        test = StatTest("TOST (Welch)", p_tost, f"equivalence bounds ±{bound:.2f} words")
+        reason = "within tolerance" + (" (equivalent by TOST)" if p_tost < ALPHA else "")
+        return Status.MATCHED, reason, test
+    p_diff = float(stats.ttest_ind(b, a, equal_var=False).pvalue)
+    test = StatTest("Welch t-test", p_diff, f"difference {difference:+.2f} words")
+    if p_diff < ALPHA:
+        return Status.DIFFERS, "beyond tolerance: a possible confound", test
+    return (
+        Status.INCONCLUSIVE,
+        f"beyond tolerance, but {a.size} and {b.size} sentences vary too much to show "
+        "a difference; read the passages",
+        test,
+    )

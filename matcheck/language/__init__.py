@@ -1,0 +1,1 @@
+"""Language processing shared by the measures: words, sentences, lemmas, syllables."""

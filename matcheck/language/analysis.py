@@ -1,0 +1,112 @@
+"""One language pass over a document: words, sentences and content terms per block.
+
+Every measure and the comparison read this analysis rather than re-tokenising the text, so
+spaCy runs exactly once per document.
+
+Which blocks count for what (documented in docs/measures.md):
+
+- *text* blocks (everything but captions) count towards length; caption text belongs to the
+  figures it describes and is measured in the ``figures`` group;
+- *prose* blocks (paragraphs, list items, footnotes) are the running text that readability
+  formulas were made for; headings and table cells are not sentences;
+- *passages* (prose blocks and table cells) are the units the content comparison aligns.
+
+A block boundary always ends a sentence: a list item without a full stop is one sentence.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from matcheck.language.words import Word, iter_words
+from matcheck.model import Block, BlockKind, Document
+
+TEXT_KINDS = frozenset(BlockKind) - {BlockKind.CAPTION}
+PROSE_KINDS = frozenset({BlockKind.PARAGRAPH, BlockKind.LIST_ITEM, BlockKind.FOOTNOTE})
+PASSAGE_KINDS = PROSE_KINDS | {BlockKind.TABLE_CELL}
+
+
+@dataclass(frozen=True, slots=True)
+class Sentence:
+    """A sentence of one block: ``words`` indexes into ``BlockAnalysis.words`` (end exclusive)."""
+
+    start: int
+    end: int
+    first_word: int
+    end_word: int
+    terms: tuple[str, ...]
+
+    @property
+    def word_count(self) -> int:
+        return self.end_word - self.first_word
+
+
+@dataclass(frozen=True, slots=True)
+class BlockAnalysis:
+    block: Block
+    words: tuple[Word, ...]
+    sentences: tuple[Sentence, ...]
+
+    @property
+    def terms(self) -> tuple[str, ...]:
+        """Content lemmas of the block in order (stop words and non-words left out)."""
+        return tuple(term for sentence in self.sentences for term in sentence.terms)
+
+
+@dataclass(frozen=True, slots=True)
+class Analysis:
+    """A document with its language analysis; ``blocks`` parallels ``document.blocks``."""
+
+    document: Document
+    blocks: tuple[BlockAnalysis, ...]
+
+    def of(self, kinds: frozenset[BlockKind]) -> tuple[BlockAnalysis, ...]:
+        return tuple(item for item in self.blocks if item.block.kind in kinds)
+
+    def words(self, kinds: frozenset[BlockKind] = TEXT_KINDS) -> list[Word]:
+        return [word for item in self.of(kinds) for word in item.words]
+
+    def sentences(self, kinds: frozenset[BlockKind] = PROSE_KINDS) -> list[Sentence]:
+        return [sentence for item in self.of(kinds) for sentence in item.sentences]
+
+    def sentence_words(self, kinds: frozenset[BlockKind] = PROSE_KINDS) -> list[list[Word]]:
+        """The words of each sentence, in reading order."""
+        return [
+            list(item.words[sentence.first_word : sentence.end_word])
+            for item in self.of(kinds)
+            for sentence in item.sentences
+            if sentence.word_count
+        ]
+
+
+def analyze(document: Document) -> Analysis:
+    """Run the language pass over every block of ``document``."""
+    from matcheck.language.pipeline import lemma, nlp, stop_words
+
+    stops = stop_words()
+    pipeline = nlp()
+    texts = [block.text for block in document.blocks]
+    results: list[BlockAnalysis] = []
+    for block, doc in zip(document.blocks, pipeline.pipe(texts, batch_size=256), strict=True):
+        words = tuple(iter_words(block.text))
+        starts = [word.start for word in words]
+        sentences = []
+        cursor = 0
+        for span in doc.sents:
+            begin, finish = span.start_char, span.end_char
+            first = cursor
+            while cursor < len(words) and starts[cursor] < finish:
+                cursor += 1
+            terms = tuple(
+                term
+                for token in span
+                if token.is_alpha and len(token.text) > 1 and token.lower_ not in stops
+                for term in (lemma(token.lower_),)
+                if term not in stops
+            )
+            sentences.append(Sentence(begin, finish, first, cursor, terms))
+        if sentences and cursor < len(words):
+            last = sentences[-1]
+            sentences[-1] = Sentence(last.start, last.end, last.first_word, len(words), last.terms)
+        results.append(BlockAnalysis(block, words, tuple(s for s in sentences if s.word_count)))
+    return Analysis(document, tuple(results))

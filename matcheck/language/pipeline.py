@@ -1,0 +1,49 @@
+"""The spaCy pipeline, loaded once and lazily: tokens, sentences and lemmas, offline.
+
+matcheck always uses a *blank* English pipeline with the rule-based sentencizer, and lemmas
+from the English lookup table of ``spacy-lookups-data``. A trained pipeline would give
+slightly different sentences and lemmas on different machines depending on what happens to be
+installed; the blank one makes every result reproducible and needs no model download.
+"""
+
+from __future__ import annotations
+
+from functools import cache
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from spacy.language import Language
+    from spacy.lookups import Table
+
+
+@cache
+def nlp() -> Language:
+    """The shared pipeline (tokenizer + sentencizer)."""
+    import spacy
+
+    pipeline = spacy.blank("en")
+    pipeline.add_pipe("sentencizer")
+    # Blocks are processed one at a time; a PDF can still yield one very long block.
+    pipeline.max_length = 50_000_000
+    return pipeline
+
+
+@cache
+def _lemma_table() -> Table:
+    """Lower-case word -> lemma, from spaCy's English lookup lemmatizer data."""
+    from spacy.lookups import load_lookups
+
+    return load_lookups("en", ["lemma_lookup"], strict=True).get_table("lemma_lookup")
+
+
+@cache
+def lemma(lower: str) -> str:
+    """The lemma of a lower-case word (the word itself when the table does not know it)."""
+    return str(_lemma_table().get(lower, lower))
+
+
+@cache
+def stop_words() -> frozenset[str]:
+    from spacy.lang.en.stop_words import STOP_WORDS
+
+    return frozenset(STOP_WORDS)

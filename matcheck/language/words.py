@@ -1,0 +1,52 @@
+"""What counts as a word: the rule every length and readability measure shares.
+
+A word is a maximal run of non-white-space characters that contains at least one letter or
+digit, with the punctuation around it stripped ("(tyre)," -> "tyre"). This is the rule word
+processors use for their word counts, and the one textstat's ``lexicon_count`` approximates;
+it does not depend on the tokenizer, so it counts the same text the same way in every format.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterator
+from dataclasses import dataclass
+
+_RUN = re.compile(r"\S+")
+_EDGE = re.compile(r"^[^\w]+|[^\w]+$")
+
+
+@dataclass(frozen=True, slots=True)
+class Word:
+    """One word of a block: ``text`` stands at ``block.text[start:end]`` (end exclusive)."""
+
+    text: str
+    start: int
+    end: int
+
+    @property
+    def lower(self) -> str:
+        return self.text.lower()
+
+
+def iter_words(text: str) -> Iterator[Word]:
+    for match in _RUN.finditer(text):
+        run = match.group()
+        if not any(char.isalnum() for char in run):
+            continue
+        stripped = _EDGE.sub("", run)
+        if not stripped:
+            continue
+        offset = run.find(stripped)
+        start = match.start() + offset
+        yield Word(stripped, start, start + len(stripped))
+
+
+def letters(word: str) -> int:
+    """Letters in a word (Coleman–Liau's L)."""
+    return sum(1 for char in word if char.isalpha())
+
+
+def strokes(word: str) -> int:
+    """Letters and digits in a word: the typed strokes the ARI counts (Senter & Smith 1967)."""
+    return sum(1 for char in word if char.isalnum())

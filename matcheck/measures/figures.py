@@ -1,0 +1,59 @@
+"""Figures: how many pictures, how large, and how they are labelled."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+from matcheck.language.analysis import Analysis
+from matcheck.language.words import iter_words
+from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.model import BlockKind
+from matcheck.settings import Settings
+
+F = Group.FIGURES
+FIGURES = MeasureSpec("figures", F, "figures", "Pictures in the lesson")
+PIXEL_AREA = MeasureSpec(
+    "figure_pixel_area", F, "megapixels", "Total pixel area of the readable pictures"
+)
+DISPLAY_AREA = MeasureSpec(
+    "figure_display_area", F, "cm²", "Total displayed area, where the format states it"
+)
+CAPTIONS = MeasureSpec("captions", F, "captions", "Figure captions")
+CAPTION_WORDS = MeasureSpec("caption_words", F, "words", "Words in captions")
+NO_ALT = MeasureSpec("figures_without_alt_text", F, "figures", "Pictures without alt text")
+UNREADABLE = MeasureSpec(
+    "figures_unreadable", F, "figures", "Pictures whose image could not be read or measured"
+)
+SPECS = (FIGURES, PIXEL_AREA, DISPLAY_AREA, CAPTIONS, CAPTION_WORDS, NO_ALT, UNREADABLE)
+
+
+def measure_figures(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
+    document = analysis.document
+    figures = document.figures
+    yield Measurement(FIGURES, float(len(figures)))
+    pixel_areas = [area for figure in figures if (area := figure.pixel_area) is not None]
+    if not figures:
+        yield Measurement(PIXEL_AREA, 0.0)
+    elif pixel_areas:
+        unmeasured = len(figures) - len(pixel_areas)
+        note = f"{unmeasured} picture(s) could not be measured" if unmeasured else ""
+        yield Measurement(PIXEL_AREA, sum(pixel_areas) / 1e6, note=note)
+    else:
+        yield Measurement(PIXEL_AREA, None, note="no picture could be measured")
+    display = [area for figure in figures if (area := figure.display_area_cm2) is not None]
+    if not figures:
+        yield Measurement(DISPLAY_AREA, 0.0)
+    elif len(display) == len(figures):
+        yield Measurement(DISPLAY_AREA, sum(display))
+    else:
+        yield Measurement(DISPLAY_AREA, None, note="the format does not state every display size")
+    captions = document.blocks_of(BlockKind.CAPTION)
+    caption_texts = [block.text for block in captions]
+    # A caption a reader attached to a figure but did not emit as a block still counts.
+    caption_texts += [f.caption for f in figures if f.caption and f.caption not in caption_texts]
+    yield Measurement(CAPTIONS, float(len(caption_texts)))
+    yield Measurement(
+        CAPTION_WORDS, float(sum(len(list(iter_words(text))) for text in caption_texts))
+    )
+    yield Measurement(NO_ALT, float(sum(1 for figure in figures if not figure.alt_text)))
+    yield Measurement(UNREADABLE, float(sum(1 for figure in figures if not figure.readable)))

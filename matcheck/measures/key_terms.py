@@ -1,0 +1,89 @@
+"""Key terms: what a lesson is about, by TF-IDF over its passages.
+
+Terms are lemmatised content words (spaCy stop words removed) and the bigrams of adjacent
+content words within a sentence. Each passage (prose block or table cell) is one document of
+the TF-IDF model (scikit-learn's ``TfidfVectorizer``: smoothed idf, l2-normalised rows); a
+term's weight in a version is the sum of its tf-idf over the version's passages, so a term
+that recurs across passages weighs more than one mentioned once.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterator, Sequence
+from typing import TYPE_CHECKING
+
+from matcheck.language.analysis import PASSAGE_KINDS, Analysis, BlockAnalysis
+from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.settings import Settings
+
+if TYPE_CHECKING:
+    from scipy.sparse import csr_matrix
+
+KEY_TERMS = MeasureSpec(
+    "key_terms", Group.CONTENT, "terms", "Key terms by TF-IDF over the lesson's passages"
+)
+SPECS = (KEY_TERMS,)
+
+
+def passage_terms(item: BlockAnalysis) -> list[str]:
+    """Unigrams and within-sentence bigrams of one passage's content lemmas."""
+    terms: list[str] = []
+    for sentence in item.sentences:
+        lemmas = sentence.terms
+        terms.extend(lemmas)
+        terms.extend(f"{a} {b}" for a, b in zip(lemmas, lemmas[1:], strict=False))
+    return terms
+
+
+def passages(analysis: Analysis) -> tuple[BlockAnalysis, ...]:
+    return tuple(item for item in analysis.of(PASSAGE_KINDS) if item.words)
+
+
+def fit_tfidf(
+    term_lists: Sequence[list[str]], *, normalized: bool = True
+) -> tuple[csr_matrix, list[str]]:
+    """Fit TF-IDF over pre-tokenised passages; returns the matrix and the vocabulary.
+
+    ``normalized=False`` keeps raw tf-idf rows, so that the vector of two passages together
+    is the sum of their rows (the passage alignment needs that).
+    """
+    from sklearn.feature_extraction.text import TfidfVectorizer
+
+    vectorizer = TfidfVectorizer(
+        analyzer=_identity, lowercase=False, norm="l2" if normalized else None
+    )
+    matrix = vectorizer.fit_transform(term_lists)
+    return matrix.tocsr(), [str(term) for term in vectorizer.get_feature_names_out()]
+
+
+def _identity(terms: list[str]) -> list[str]:
+    return terms
+
+
+def term_weights(matrix: csr_matrix, rows: Sequence[int], vocabulary: list[str]) -> dict[str, float]:
+    """Sum of tf-idf per term over the given passage rows."""
+    import numpy as np
+
+    if not rows:
+        return {}
+    totals = np.asarray(matrix[list(rows)].sum(axis=0)).ravel()
+    return {vocabulary[i]: float(totals[i]) for i in np.flatnonzero(totals)}
+
+
+def top_terms(weights: dict[str, float], count: int) -> list[tuple[str, float]]:
+    """The ``count`` heaviest terms, weights scaled to sum to 1 over the whole vocabulary."""
+    total = sum(weights.values()) or 1.0
+    ranked = sorted(weights.items(), key=lambda item: (-item[1], item[0]))[:count]
+    return [(term, weight / total) for term, weight in ranked]
+
+
+def measure_key_terms(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
+    units = passages(analysis)
+    term_lists = [passage_terms(item) for item in units]
+    if not any(term_lists):
+        yield Measurement(KEY_TERMS, 0.0, note="no content words")
+        return
+    matrix, vocabulary = fit_tfidf(term_lists)
+    weights = term_weights(matrix, range(len(units)), vocabulary)
+    top = top_terms(weights, settings.key_terms)
+    yield Measurement(KEY_TERMS, float(len(vocabulary)), items=tuple(top))

@@ -1,0 +1,125 @@
+"""Readability: the published formulas, computed once from one set of counts.
+
+All formulas read the same counts of the running prose (paragraphs, list items, footnotes;
+see :mod:`matcheck.language.analysis`), so they cannot disagree about what a word or a
+sentence is. The formulas themselves are pure functions in :mod:`matcheck.measures.formulas`.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+from dataclasses import dataclass
+
+from matcheck.language.analysis import Analysis
+from matcheck.measures import formulas
+from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.settings import Settings
+
+R = Group.READABILITY
+FRE = MeasureSpec("flesch_reading_ease", R, "points", "Flesch Reading Ease (Flesch 1948)")
+FKGL = MeasureSpec(
+    "flesch_kincaid_grade", R, "grade", "Flesch–Kincaid Grade Level (Kincaid et al. 1975)"
+)
+FOG = MeasureSpec("gunning_fog", R, "grade", "Gunning fog index (Gunning 1952)")
+SMOG = MeasureSpec("smog", R, "grade", "SMOG grade, regression form (McLaughlin 1969)")
+CLI = MeasureSpec("coleman_liau", R, "grade", "Coleman–Liau index (Coleman & Liau 1975)")
+ARI = MeasureSpec(
+    "automated_readability", R, "grade", "Automated Readability Index (Senter & Smith 1967)"
+)
+DALE_CHALL = MeasureSpec(
+    "dale_chall", R, "score", "Dale–Chall readability score, 1948 formula (Dale & Chall 1948)"
+)
+WPS = MeasureSpec("words_per_sentence", R, "words", "Mean words per sentence")
+SPW = MeasureSpec("syllables_per_word", R, "syllables", "Mean syllables per word")
+LONG = MeasureSpec(
+    "long_words_share", R, "share", "Share of words longer than six letters (Björnsson 1968)"
+)
+RARE = MeasureSpec(
+    "rare_words_share", R, "share", "Share of words not on the Dale–Chall familiar-word list"
+)
+MTLD = MeasureSpec("mtld", R, "tokens", "Lexical diversity, MTLD (McCarthy & Jarvis 2010)")
+SPECS = (FRE, FKGL, FOG, SMOG, CLI, ARI, DALE_CHALL, WPS, SPW, LONG, RARE, MTLD)
+
+
+@dataclass(frozen=True, slots=True)
+class ProseCounts:
+    """The counts every formula draws on (prose blocks only)."""
+
+    words: int
+    sentences: int
+    syllables: int
+    polysyllables: int
+    fog_hard_words: int
+    letters: int
+    strokes: int
+    long_words: int
+    unfamiliar_words: int
+    tokens: tuple[str, ...]
+    sentence_lengths: tuple[int, ...]
+
+
+def count_prose(analysis: Analysis) -> ProseCounts:
+    from matcheck.language.pipeline import lemma
+    from matcheck.language.syllables import count_syllables, is_fog_hard_word
+    from matcheck.language.wordlists import is_familiar
+    from matcheck.language.words import letters, strokes
+
+    syllables = polysyllables = hard = letter_count = stroke_count = long_words = rare = 0
+    tokens: list[str] = []
+    lengths: list[int] = []
+    for sentence in analysis.sentence_words():
+        lengths.append(len(sentence))
+        for position, word in enumerate(sentence):
+            lower = word.lower
+            count = count_syllables(word.text)
+            syllables += count
+            polysyllables += count >= 3
+            hard += is_fog_hard_word(word.text, count, sentence_initial=position == 0)
+            n_letters = letters(word.text)
+            letter_count += n_letters
+            stroke_count += strokes(word.text)
+            long_words += n_letters > 6
+            rare += not is_familiar(lower, lemma(lower))
+            tokens.append(lower)
+    return ProseCounts(
+        words=len(tokens),
+        sentences=len(lengths),
+        syllables=syllables,
+        polysyllables=polysyllables,
+        fog_hard_words=hard,
+        letters=letter_count,
+        strokes=stroke_count,
+        long_words=long_words,
+        unfamiliar_words=rare,
+        tokens=tuple(tokens),
+        sentence_lengths=tuple(lengths),
+    )
+
+
+def measure_readability(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
+    counts = count_prose(analysis)
+    words, sentences = counts.words, counts.sentences
+    if not words or not sentences:
+        for spec in SPECS:
+            yield Measurement(spec, None, note="no running prose to measure")
+        return
+    yield Measurement(FRE, formulas.flesch_reading_ease(words, sentences, counts.syllables))
+    yield Measurement(FKGL, formulas.flesch_kincaid_grade(words, sentences, counts.syllables))
+    yield Measurement(FOG, formulas.gunning_fog(words, sentences, counts.fog_hard_words))
+    smog_note = "" if sentences >= 30 else "SMOG was validated on samples of 30 sentences"
+    yield Measurement(SMOG, formulas.smog(sentences, counts.polysyllables), note=smog_note)
+    yield Measurement(CLI, formulas.coleman_liau(counts.letters, words, sentences))
+    yield Measurement(ARI, formulas.automated_readability(counts.strokes, words, sentences))
+    yield Measurement(
+        DALE_CHALL,
+        formulas.dale_chall(
+            words, sentences, counts.unfamiliar_words, adjustment=settings.dale_chall_adjustment
+        ),
+    )
+    yield Measurement(WPS, words / sentences, sample=tuple(map(float, counts.sentence_lengths)))
+    yield Measurement(SPW, counts.syllables / words)
+    yield Measurement(LONG, counts.long_words / words)
+    yield Measurement(RARE, counts.unfamiliar_words / words)
+    mtld = formulas.mtld(counts.tokens)
+    mtld_note = "" if words >= 100 else "MTLD is unstable below about 100 words"
+    yield Measurement(MTLD, mtld, note=mtld_note)

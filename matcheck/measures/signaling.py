@@ -1,0 +1,63 @@
+"""Signaling: typographic emphasis that draws a reader to particular words.
+
+Only body text counts (paragraphs, list items, table cells, footnotes): headings are often
+bold by style, and captions belong to figures. A word counts as emphasised with a kind when
+every character of it lies inside a span of that kind.
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+from collections.abc import Iterator
+
+from matcheck.language.analysis import Analysis
+from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.model import Block, BlockKind, Emphasis
+from matcheck.settings import Settings
+
+G = Group.SIGNALING
+EMPHASIZED = MeasureSpec(
+    "emphasized_words", G, "words", "Words with any emphasis (bold, italic, underline, highlight)"
+)
+KIND_SPECS = {
+    kind: MeasureSpec(f"{kind.value}_words", G, "words", f"Words in {kind.value}")
+    for kind in Emphasis
+}
+TERMS = MeasureSpec(
+    "emphasized_terms", G, "terms", "Distinct emphasised terms (a run of emphasised words)"
+)
+SPECS = (EMPHASIZED, *KIND_SPECS.values(), TERMS)
+BODY_KINDS = frozenset(
+    {BlockKind.PARAGRAPH, BlockKind.LIST_ITEM, BlockKind.TABLE_CELL, BlockKind.FOOTNOTE}
+)
+
+
+def _kinds_at(block: Block, start: int, end: int) -> frozenset[Emphasis]:
+    return frozenset(
+        span.kind for span in block.emphasis if span.start <= start and end <= span.end
+    )
+
+
+def measure_signaling(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
+    per_kind: Counter[Emphasis] = Counter()
+    any_count = 0
+    terms: Counter[str] = Counter()
+    for item in analysis.of(BODY_KINDS):
+        block = item.block
+        run: list[str] = []
+        for word in item.words:
+            kinds = _kinds_at(block, word.start, word.end) if block.emphasis else frozenset()
+            per_kind.update(kinds)
+            if kinds:
+                any_count += 1
+                run.append(word.lower)
+            elif run:
+                terms[" ".join(run)] += 1
+                run = []
+        if run:
+            terms[" ".join(run)] += 1
+    yield Measurement(EMPHASIZED, float(any_count))
+    for kind, spec in KIND_SPECS.items():
+        yield Measurement(spec, float(per_kind[kind]))
+    items = tuple(sorted(((term, float(n)) for term, n in terms.items()), key=lambda t: (-t[1], t[0])))
+    yield Measurement(TERMS, float(len(terms)), items=items)

@@ -1,0 +1,45 @@
+"""Join the parts of a lesson (several files, in order) into one document."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import replace
+
+from matcheck.model import Block, Document, Figure
+
+
+def join_documents(parts: Sequence[Document]) -> Document:
+    """One document whose blocks and figures are the parts' in order, re-indexed.
+
+    Locations keep their page and line (which belong to each part's own file) and get
+    block indices and paragraph numbers that run through the whole lesson.
+    """
+    blocks: list[Block] = []
+    figures: list[Figure] = []
+    paragraphs = 0
+    warnings: list[str] = []
+    excluded: list[str] = []
+    for part in parts:
+        offset = len(blocks)
+        for block in part.blocks:
+            paragraph = block.location.paragraph
+            if paragraph is not None:
+                paragraphs += 1
+                paragraph = paragraphs
+            location = replace(block.location, block=offset + block.location.block, paragraph=paragraph)
+            blocks.append(replace(block, location=location))
+        for figure in part.figures:
+            location = replace(figure.location, block=offset + figure.location.block)
+            figures.append(replace(figure, location=location))
+        warnings += [f"{part.name}: {w}" for w in part.warnings]
+        excluded += [f"{part.name}: {e}" for e in part.excluded]
+    pages = [part.pages for part in parts]
+    return Document(
+        path=" + ".join(part.path for part in parts),
+        format="+".join(dict.fromkeys(part.format for part in parts)),
+        blocks=tuple(blocks),
+        figures=tuple(figures),
+        pages=sum(p for p in pages if p) if any(pages) else None,
+        excluded=tuple(excluded),
+        warnings=tuple(warnings),
+    )

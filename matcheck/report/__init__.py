@@ -1,0 +1,1 @@
+"""Render a report in one output format."""

@@ -1,0 +1,121 @@
+"""Formatting shared by every output format: values, differences, ordering, labels."""
+
+from __future__ import annotations
+
+from matcheck.findings import Evidence, Finding, Report, Status
+
+STATUS_ORDER = (Status.DIFFERS, Status.INCONCLUSIVE, Status.INTENDED, Status.MATCHED)
+GROUP_ORDER = ("length", "readability", "content", "figures", "structure", "signaling", "assessment")
+
+EVIDENCE_LABELS = {
+    "passage_removed": "passage removed",
+    "passage_added": "passage added",
+    "passage_rewritten": "passage rewritten",
+    "passage_moved": "passage moved",
+    "text_removed": "text removed inside a passage",
+    "text_added": "text added inside a passage",
+    "term_missing": "key term missing",
+    "heading_removed": "heading removed",
+    "heading_added": "heading added",
+    "list_item_removed": "list item removed",
+    "list_item_added": "list item added",
+    "table_cell_removed": "table cell removed",
+    "table_cell_added": "table cell added",
+    "figure_added": "figure",
+    "figure_removed": "figure",
+    "emphasis_added": "emphasis added",
+    "emphasis_removed": "emphasis removed",
+    "sentence_length_changed": "sentence length changed",
+}
+
+_DECIMALS = {
+    "share": 3,
+    "grade": 1,
+    "points": 1,
+    "score": 2,
+    "minutes": 1,
+    "words": 0,
+    "syllables": 2,
+    "tokens": 1,
+    "megapixels": 2,
+    "cm²": 1,
+}
+
+
+def format_value(value: float | None, unit: str, dimension: str = "") -> str:
+    if value is None:
+        return "—"
+    decimals = _DECIMALS.get(unit, 0)
+    if dimension in ("words_per_sentence",):
+        decimals = 1
+    if unit == "share":
+        return f"{value * 100:.1f}%"
+    if decimals == 0 and float(value).is_integer():
+        return f"{int(value):,}"
+    return f"{value:,.{decimals}f}"
+
+
+def format_difference(finding: Finding) -> str:
+    if finding.difference is None:
+        return "—"
+    if finding.group == "content":
+        if finding.dimension == "key_term_coverage":
+            return f"{finding.difference * 100:.1f}% missing"
+        return f"{int(finding.difference)}"
+    text = format_value(abs(finding.difference), finding.unit, finding.dimension)
+    sign = "+" if finding.difference > 0 else "−" if finding.difference < 0 else "±"
+    relative = finding.relative_difference
+    if relative is not None and finding.unit not in ("share", "grade", "points", "score"):
+        return f"{sign}{text} ({relative * 100:+.1f}%)"
+    return f"{sign}{text}"
+
+
+def format_tolerance(finding: Finding) -> str:
+    if finding.tolerance is None:
+        return "—"
+    if finding.dimension == "key_term_coverage":
+        return f"≥ {(1 - finding.tolerance.absolute) * 100:g}% covered"
+    unit = "" if finding.unit == "share" else finding.unit
+    if finding.unit == "share" and finding.tolerance.absolute:
+        return f"±{finding.tolerance.absolute * 100:g} points"
+    return finding.tolerance.describe(unit)
+
+
+def sorted_findings(findings: tuple[Finding, ...] | list[Finding]) -> list[Finding]:
+    """Differences first, then by group and in catalogue order (stable)."""
+    def key(finding: Finding) -> tuple[int, int]:
+        group = GROUP_ORDER.index(finding.group) if finding.group in GROUP_ORDER else 99
+        return STATUS_ORDER.index(finding.status), group
+
+    return sorted(findings, key=key)
+
+
+def pairs(report: Report) -> list[str]:
+    """The conditions compared with the reference, in order."""
+    return [c.name for c in report.conditions if c.name != report.reference]
+
+
+def describe_evidence(item: Evidence) -> str:
+    label = EVIDENCE_LABELS.get(item.kind, item.kind.replace("_", " "))
+    where = f" — {item.location.describe()}" if item.location else ""
+    extra = ""
+    if item.similarity is not None:
+        extra += f" (similarity {item.similarity:.2f})"
+    if item.kind == "term_missing" and item.weight is not None:
+        extra += f" (weight {item.weight * 100:.1f}%)"
+    text = f"“{item.text}”"
+    line = f"{label} in {item.condition}{where}: {text}{extra}"
+    if item.counterpart is not None:
+        counterpart = f"; counterpart at {item.counterpart.describe()}"
+        if item.counterpart_text:
+            counterpart += f": “{item.counterpart_text}”"
+        line += counterpart
+    elif item.counterpart_text:
+        line += f" ({item.counterpart_text})"
+    return line
+
+
+def summary_counts(report: Report) -> dict[str, int]:
+    return {
+        status.value: len(report.root_findings(status)) for status in STATUS_ORDER
+    }

@@ -1,0 +1,110 @@
+"""The JSON report: a documented, versioned schema (docs/report-schema.md)."""
+
+from __future__ import annotations
+
+import json
+from typing import Any
+
+from matcheck import __version__
+from matcheck.findings import SCHEMA_VERSION, Evidence, Finding, Report
+from matcheck.model import Location
+from matcheck.report.common import sorted_findings, summary_counts
+
+
+def location_dict(location: Location | None) -> dict[str, Any] | None:
+    if location is None:
+        return None
+    return {
+        "block": location.block,
+        "page": location.page,
+        "line": location.line,
+        "section": location.section,
+        "paragraph": location.paragraph,
+        "description": location.describe(),
+    }
+
+
+def _evidence(item: Evidence) -> dict[str, Any]:
+    return {
+        "kind": item.kind,
+        "condition": item.condition,
+        "text": item.text,
+        "location": location_dict(item.location),
+        "weight": item.weight,
+        "similarity": item.similarity,
+        "counterpart": location_dict(item.counterpart),
+        "counterpart_text": item.counterpart_text or None,
+    }
+
+
+def finding_dict(finding: Finding) -> dict[str, Any]:
+    tolerance = finding.tolerance
+    return {
+        "dimension": finding.dimension,
+        "group": finding.group,
+        "unit": finding.unit,
+        "reference": finding.reference,
+        "condition": finding.condition,
+        "status": finding.status.value,
+        "values": finding.values,
+        "difference": finding.difference,
+        "relative_difference": finding.relative_difference,
+        "tolerance": None
+        if tolerance is None
+        else {
+            "absolute": tolerance.absolute,
+            "relative": tolerance.relative,
+            "description": tolerance.describe(finding.unit),
+            "reason": tolerance.reason,
+        },
+        "reason": finding.reason,
+        "caused_by": finding.caused_by,
+        "test": None
+        if finding.test is None
+        else {"name": finding.test.name, "p_value": finding.test.p_value, "detail": finding.test.detail},
+        "evidence": [_evidence(item) for item in finding.evidence],
+    }
+
+
+def report_dict(report: Report) -> dict[str, Any]:
+    counts = summary_counts(report)
+    return {
+        "schema_version": SCHEMA_VERSION,
+        "tool": {"name": "matcheck", "version": __version__},
+        "reference": report.reference,
+        "manipulated": list(report.manipulated),
+        "words_per_minute": report.words_per_minute,
+        "conditions": [
+            {
+                "name": c.name,
+                "paths": list(c.paths),
+                "format": c.format,
+                "reference": c.is_reference,
+                "warnings": list(c.warnings),
+                "excluded": list(c.excluded),
+            }
+            for c in report.conditions
+        ],
+        "summary": {
+            "verdict": "differs" if report.differs else "matched",
+            "root_findings": counts,
+        },
+        "findings": [finding_dict(f) for f in sorted_findings(report.findings)],
+        "spread": [
+            {
+                "dimension": s.dimension,
+                "group": s.group,
+                "unit": s.unit,
+                "min": s.minimum,
+                "max": s.maximum,
+                "range": s.maximum - s.minimum,
+                "status": s.status.value,
+            }
+            for s in report.spreads
+        ],
+        "notes": list(report.notes),
+    }
+
+
+def render_json(report: Report) -> str:
+    return json.dumps(report_dict(report), indent=2, ensure_ascii=False) + "\n"

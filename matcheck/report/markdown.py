@@ -1,0 +1,80 @@
+"""The Markdown report, fit for a pull-request comment: long evidence goes in <details>."""
+
+from __future__ import annotations
+
+from matcheck.findings import Report, Status
+from matcheck.report.common import (
+    describe_evidence,
+    format_difference,
+    format_tolerance,
+    format_value,
+    pairs,
+    summary_counts,
+)
+from matcheck.report.table import ordered_with_echoes
+
+ICONS = {
+    Status.DIFFERS: "❌ differs",
+    Status.INCONCLUSIVE: "⚠️ inconclusive",
+    Status.INTENDED: "🎯 intended",
+    Status.MATCHED: "✅ matched",
+}
+
+
+def _cell(text: str) -> str:
+    return text.replace("|", "\\|").replace("\n", " ")
+
+
+def render_markdown(report: Report) -> str:
+    counts = summary_counts(report)
+    lines = ["## matcheck report", ""]
+    verdict = "**Possible confounds found.**" if report.differs else "**No differences beyond tolerance.**"
+    lines.append(
+        f"{verdict} {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
+        f"{counts['intended']} intended, {counts['matched']} matched (root findings). "
+        f"Reference: `{report.reference}`"
+        + (f"; manipulated: {', '.join(f'`{m}`' for m in report.manipulated)}." if report.manipulated else ".")
+    )
+    lines.append("")
+    for name in pairs(report):
+        findings = [f for f in report.findings if f.condition == name]
+        lines += [f"### `{report.reference}` vs `{name}`", ""]
+        lines.append(f"| Group | Measure | {_cell(report.reference)} | {_cell(name)} | Difference | Tolerance | Verdict |")
+        lines.append("|---|---|--:|--:|--:|--:|---|")
+        matched = []
+        for finding, is_echo in ordered_with_echoes(findings):
+            label = f"↳ {finding.dimension}" if is_echo else finding.dimension
+            verdict = ICONS[finding.status]
+            if is_echo and finding.caused_by:
+                verdict += f" (follows `{finding.caused_by}`)"
+            row = (
+                f"| {finding.group} | `{label}` | "
+                f"{format_value(finding.values.get(report.reference), finding.unit, finding.dimension)} | "
+                f"{format_value(finding.values.get(name), finding.unit, finding.dimension)} | "
+                f"{_cell(format_difference(finding))} | {_cell(format_tolerance(finding))} | {verdict} |"
+            )
+            if finding.status is Status.MATCHED:
+                matched.append(row)
+            else:
+                lines.append(row)
+        lines.append("")
+        if matched:
+            lines += [f"<details><summary>{len(matched)} matched measures</summary>", ""]
+            lines.append(f"| Group | Measure | {_cell(report.reference)} | {_cell(name)} | Difference | Tolerance | Verdict |")
+            lines.append("|---|---|--:|--:|--:|--:|---|")
+            lines += matched
+            lines += ["", "</details>", ""]
+        located = [f for f in findings if f.evidence and f.status is not Status.MATCHED]
+        for finding in located:
+            lines.append(
+                f"<details><summary>{ICONS[finding.status]}: <code>{finding.dimension}</code> — "
+                f"{len(finding.evidence)} located</summary>"
+            )
+            lines.append("")
+            lines += [f"- {_cell(describe_evidence(item))}" for item in finding.evidence]
+            lines += ["", "</details>", ""]
+    for condition in report.conditions:
+        for warning in condition.warnings:
+            lines.append(f"> ⚠️ `{condition.name}`: {warning}")
+    lines += ["", f"_{report.notes[0]}_" if report.notes else ""]
+    return "\n".join(lines).rstrip() + "\n"

@@ -1,0 +1,146 @@
+"""The terminal report: a Rich table per compared pair, differences first, then where."""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING
+
+from matcheck.findings import Finding, Report, Status
+from matcheck.report.common import (
+    describe_evidence,
+    format_difference,
+    format_tolerance,
+    format_value,
+    pairs,
+    sorted_findings,
+    summary_counts,
+)
+
+if TYPE_CHECKING:
+    from rich.console import Console
+
+STYLES = {
+    Status.DIFFERS: "bold red",
+    Status.INCONCLUSIVE: "yellow",
+    Status.INTENDED: "cyan",
+    Status.MATCHED: "green",
+}
+MAX_EVIDENCE_LINES = 8
+
+
+def ordered_with_echoes(findings: list[Finding]) -> list[tuple[Finding, bool]]:
+    """Root findings in report order, each followed by its echoes (flagged True)."""
+    roots = [f for f in sorted_findings(findings) if f.caused_by is None]
+    echoes = [f for f in findings if f.caused_by is not None]
+    ordered: list[tuple[Finding, bool]] = []
+    placed: set[int] = set()
+    for root in roots:
+        ordered.append((root, False))
+        for echo in echoes:
+            if echo.caused_by == root.dimension and id(echo) not in placed:
+                ordered.append((echo, True))
+                placed.add(id(echo))
+    ordered += [(echo, True) for echo in echoes if id(echo) not in placed]
+    return ordered
+
+
+def render_table(report: Report, console: Console, *, show_matched: bool = True) -> None:
+    from rich.table import Table
+
+    for name in pairs(report):
+        findings = [f for f in report.findings if f.condition == name]
+        table = Table(
+            title=f"{report.reference} (reference) vs {name}",
+            title_justify="left",
+            show_lines=False,
+            header_style="bold",
+        )
+        for column, justify in (
+            ("Group", "left"),
+            ("Measure", "left"),
+            (report.reference, "right"),
+            (name, "right"),
+            ("Difference", "right"),
+            ("Tolerance", "right"),
+            ("Verdict", "left"),
+        ):
+            table.add_column(column, justify=justify)  # type: ignore[arg-type]
+        for finding, is_echo in ordered_with_echoes(findings):
+            if not show_matched and finding.status is Status.MATCHED:
+                continue
+            label = finding.dimension
+            if is_echo:
+                label = f"  ↳ {label}"
+            verdict = finding.status.value
+            if is_echo and finding.caused_by:
+                verdict += f" (follows {finding.caused_by})"
+            elif finding.status is Status.INCONCLUSIVE:
+                verdict += f" ({finding.reason})"
+            table.add_row(
+                finding.group,
+                label,
+                format_value(finding.values.get(report.reference), finding.unit, finding.dimension),
+                format_value(finding.values.get(name), finding.unit, finding.dimension),
+                format_difference(finding),
+                format_tolerance(finding),
+                verdict,
+                style=STYLES[finding.status] if finding.status is not Status.MATCHED else None,
+            )
+        console.print(table)
+        located = [f for f in sorted_findings(findings) if f.evidence and f.status is not Status.MATCHED]
+        if located:
+            console.print("[bold]Where[/bold]")
+            for finding in located:
+                console.print(
+                    f"[{STYLES[finding.status]}]{finding.status.value}[/] {finding.group} · "
+                    f"{finding.dimension}",
+                    highlight=False,
+                )
+                for item in finding.evidence[:MAX_EVIDENCE_LINES]:
+                    console.print(f"  • {describe_evidence(item)}", highlight=False, markup=False)
+                if len(finding.evidence) > MAX_EVIDENCE_LINES:
+                    extra = len(finding.evidence) - MAX_EVIDENCE_LINES
+                    console.print(f"  … and {extra} more (see --format json)", highlight=False)
+        console.print()
+    for condition in report.conditions:
+        for warning in condition.warnings:
+            console.print(f"[yellow]warning[/yellow] {condition.name}: {warning}", highlight=False)
+        if condition.excluded:
+            console.print(
+                f"[dim]{condition.name}: left out of the lesson text: "
+                f"{'; '.join(condition.excluded)}[/dim]",
+                highlight=False,
+            )
+    if report.spreads:
+        _render_spread(report, console)
+    counts = summary_counts(report)
+    verdict = "[bold red]possible confounds found[/]" if report.differs else "[bold green]no differences beyond tolerance[/]"
+    console.print(
+        f"{verdict}: {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
+        f"{counts['intended']} intended, {counts['matched']} matched "
+        f"(root findings; reading rate {report.words_per_minute:g} words/min)."
+    )
+    for note in report.notes:
+        console.print(f"[dim]{note}[/dim]")
+
+
+def _render_spread(report: Report, console: Console) -> None:
+    from rich.table import Table
+
+    table = Table(title="Spread across all versions", title_justify="left", header_style="bold")
+    for column in ("Group", "Measure", "Min", "Max", "Range", "Worst verdict"):
+        table.add_column(column)
+    for spread in report.spreads:
+        if spread.status is Status.MATCHED:
+            continue
+        table.add_row(
+            spread.group,
+            spread.dimension,
+            format_value(spread.minimum, spread.unit, spread.dimension),
+            format_value(spread.maximum, spread.unit, spread.dimension),
+            format_value(spread.maximum - spread.minimum, spread.unit, spread.dimension),
+            spread.status.value,
+            style=STYLES[spread.status],
+        )
+    if table.row_count:
+        console.print(table)
+        console.print()
