@@ -44,13 +44,12 @@ class Tolerance:
     def describe(self, unit: str = "") -> str:
         if self.absolute == 0 and self.relative == 0:
             return "exact"
-        parts = []
+        amount = f"{self.absolute:g}{' ' + unit if unit else ''}"
+        if self.relative and self.absolute:
+            return f"±{self.relative * 100:g}% (≥{amount})"
         if self.relative:
-            parts.append(f"±{self.relative * 100:g}%")
-        if self.absolute:
-            amount = f"{self.absolute:g}{' ' + unit if unit else ''}"
-            parts.append(f"at least {amount}" if self.relative else f"±{amount}")
-        return ", ".join(parts)
+            return f"±{self.relative * 100:g}%"
+        return f"±{amount}"
 
 
 @dataclass(frozen=True, slots=True)

@@ -131,7 +131,8 @@ class Document:
 
     ``excluded`` names what the reader deliberately left out of the lesson text (running
     headers, comments, ...) so a report can say so; ``warnings`` are problems that did not
-    stop the reading.
+    stop the reading; ``undetected`` names the measures this format cannot observe (a PDF
+    does not mark its tables), which are then reported as unknown rather than as zero.
     """
 
     path: str
@@ -141,6 +142,7 @@ class Document:
     pages: int | None = None
     excluded: tuple[str, ...] = ()
     warnings: tuple[str, ...] = field(default=())
+    undetected: tuple[str, ...] = ()
 
     @property
     def name(self) -> str:

@@ -28,6 +28,11 @@ if TYPE_CHECKING:
 PAIR_THRESHOLD = 0.25
 STRONG = 0.7
 MERGE_PENALTY = 0.05
+# Pairing one passage with two is allowed only when the two together resemble it clearly more
+# than either alone does: a split paragraph, not a neighbour swallowed with its match.
+MERGE_GAIN = 0.1
+# A leftover passage next to a pair joins it when the pair's cosine rises at least this much.
+ABSORB_GAIN = 0.02
 MIN_BAND = 60
 BAND_SHARE = 0.2
 _CHUNK = 128
@@ -161,13 +166,15 @@ def align(
                     best, how = gain, (1, 1, sim)
             if i > 1 and j > 0 and band.in_band(i - 2, j - 1) and band.in_band(i - 1, j - 1):
                 sim = two_one(i - 2, j - 1)
+                alone = max(one_one(i - 2, j - 1), one_one(i - 1, j - 1))
                 gain = score.get((i - 2, j - 1), neg) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
-                if sim > PAIR_THRESHOLD and gain > best:
+                if sim > PAIR_THRESHOLD and sim >= alone + MERGE_GAIN and gain > best:
                     best, how = gain, (2, 1, sim)
             if i > 0 and j > 1 and band.in_band(i - 1, j - 2) and band.in_band(i - 1, j - 1):
                 sim = one_two(i - 1, j - 2)
+                alone = max(one_one(i - 1, j - 2), one_one(i - 1, j - 1))
                 gain = score.get((i - 1, j - 2), neg) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
-                if sim > PAIR_THRESHOLD and gain > best:
+                if sim > PAIR_THRESHOLD and sim >= alone + MERGE_GAIN and gain > best:
                     best, how = gain, (1, 2, sim)
             if best > neg:
                 score[(i, j)] = best
@@ -188,8 +195,64 @@ def align(
     pairs.reverse()
     removed.reverse()
     added.reverse()
+    pairs = _absorb(left, right, pairs, removed, added)
     moved, removed, added = _find_moved(left, right, removed, added, plain_a, plain_b)
     return Alignment(tuple(pairs), tuple(removed), tuple(added), tuple(moved))
+
+
+def _absorb(
+    left: csr_matrix,
+    right: csr_matrix,
+    pairs: list[Pair],
+    removed: list[int],
+    added: list[int],
+) -> list[Pair]:
+    """Grow pairs with adjacent leftovers while that makes them more alike.
+
+    The programme pairs at most two passages with one; a list of six steps turned into one
+    paragraph leaves four steps over. Each leftover next to a pair joins it when the pair's
+    cosine rises by at least :data:`ABSORB_GAIN`; a removed neighbour lowers the cosine and
+    stays removed. Works on ``removed`` and ``added`` in place.
+    """
+    import numpy as np
+
+    def vector(matrix: csr_matrix, rows: Sequence[int]) -> np.ndarray:
+        return np.asarray(matrix[list(rows)].sum(axis=0)).ravel()
+
+    def cosine(a: np.ndarray, b: np.ndarray) -> float:
+        denominator = float(np.linalg.norm(a) * np.linalg.norm(b))
+        return float(a @ b) / denominator if denominator else 0.0
+
+    left_over, right_over = set(removed), set(added)
+    grown: list[Pair] = []
+    for pair in pairs:
+        rows_a, rows_b = list(pair.left), list(pair.right)
+        va, vb = vector(left, rows_a), vector(right, rows_b)
+        similarity = pair.similarity
+        changed = True
+        while changed and (left_over or right_over):
+            changed = False
+            for side, rows, pool in (("a", rows_a, left_over), ("b", rows_b, right_over)):
+                for candidate in (min(rows) - 1, max(rows) + 1):
+                    if candidate not in pool:
+                        continue
+                    matrix = left if side == "a" else right
+                    extended = (va if side == "a" else vb) + vector(matrix, [candidate])
+                    trial = cosine(extended, vb) if side == "a" else cosine(va, extended)
+                    if trial >= similarity + ABSORB_GAIN:
+                        pool.discard(candidate)
+                        rows.append(candidate)
+                        rows.sort()
+                        if side == "a":
+                            va = extended
+                        else:
+                            vb = extended
+                        similarity = trial
+                        changed = True
+        grown.append(Pair(tuple(rows_a), tuple(rows_b), similarity))
+    removed[:] = [i for i in removed if i in left_over]
+    added[:] = [j for j in added if j in right_over]
+    return grown
 
 
 def _find_moved(

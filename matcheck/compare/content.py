@@ -18,8 +18,8 @@ from typing import TYPE_CHECKING
 
 from matcheck.compare.alignment import Alignment, align
 from matcheck.findings import Evidence
-from matcheck.language.analysis import Analysis, BlockAnalysis
-from matcheck.measures.key_terms import fit_tfidf, passage_terms, passages, term_weights
+from matcheck.language.analysis import Analysis
+from matcheck.measures.key_terms import Passage, fit_tfidf, passages, term_weights
 
 if TYPE_CHECKING:
     from scipy.sparse import csr_matrix
@@ -34,7 +34,7 @@ MIN_RUN_WORDS = 6
 @dataclass(frozen=True, slots=True)
 class VersionText:
     name: str
-    passages: tuple[BlockAnalysis, ...]
+    passages: tuple[Passage, ...]
     rows: range
 
 
@@ -77,7 +77,7 @@ def build_model(analyses: dict[str, Analysis]) -> ContentModel:
     for name, analysis in analyses.items():
         units = passages(analysis)
         start = len(term_lists)
-        term_lists.extend(passage_terms(item) for item in units)
+        term_lists.extend(list(unit.terms) for unit in units)
         versions[name] = VersionText(name, units, range(start, len(term_lists)))
     if not any(term_lists):
         term_lists = [["\u2400"]] * max(1, len(term_lists))  # an empty vocabulary breaks TF-IDF
@@ -114,7 +114,7 @@ def _coverage(model: ContentModel, source: str, target: str) -> Coverage:
     block = model.normalized[src.rows.start : src.rows.stop]
     for term, weight in missing[:MISSING_SHOWN]:
         column = block[:, index[term]].toarray().ravel()
-        where = src.passages[int(column.argmax())].block
+        where = src.passages[int(column.argmax())]
         evidence.append(
             Evidence(
                 kind="term_missing",
@@ -133,16 +133,16 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
     alignment = align(
         model.rows(reference),
         model.rows(version),
-        [item.block.text for item in ref.passages],
-        [item.block.text for item in other.passages],
+        [item.text for item in ref.passages],
+        [item.text for item in other.passages],
     )
 
-    def passage_evidence(kind: str, name: str, item: BlockAnalysis, **extra: object) -> Evidence:
+    def passage_evidence(kind: str, name: str, item: Passage, **extra: object) -> Evidence:
         return Evidence(
             kind=kind,
             condition=name,
-            text=excerpt(item.block.text),
-            location=item.block.location,
+            text=excerpt(item.text),
+            location=item.location,
             **extra,  # type: ignore[arg-type]
         )
 
@@ -158,8 +158,8 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
             reference,
             ref.passages[pair.left[0]],
             similarity=pair.similarity,
-            counterpart=other.passages[pair.right[0]].block.location,
-            counterpart_text=excerpt(" ".join(other.passages[j].block.text for j in pair.right)),
+            counterpart=other.passages[pair.right[0]].location,
+            counterpart_text=excerpt(" ".join(other.passages[j].text for j in pair.right)),
         )
         for pair in alignment.rewritten
     )
@@ -169,8 +169,8 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
             reference,
             ref.passages[pair.left[0]],
             similarity=pair.similarity,
-            counterpart=other.passages[pair.right[0]].block.location,
-            counterpart_text=excerpt(other.passages[pair.right[0]].block.text),
+            counterpart=other.passages[pair.right[0]].location,
+            counterpart_text=excerpt(other.passages[pair.right[0]].text),
         )
         for pair in alignment.moved
     )
@@ -205,8 +205,8 @@ def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[E
                         kind="text_removed",
                         condition=ref.name,
                         text=excerpt(" ".join(w.text for w in left[i1:i2])),
-                        location=ref.passages[pair.left[0]].block.location,
-                        counterpart=other.passages[pair.right[0]].block.location,
+                        location=ref.passages[pair.left[0]].location,
+                        counterpart=other.passages[pair.right[0]].location,
                     )
                 )
             if tag in ("insert", "replace") and j2 - j1 >= MIN_RUN_WORDS:
@@ -215,8 +215,8 @@ def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[E
                         kind="text_added",
                         condition=other.name,
                         text=excerpt(" ".join(w.text for w in right[j1:j2])),
-                        location=other.passages[pair.right[0]].block.location,
-                        counterpart=ref.passages[pair.left[0]].block.location,
+                        location=other.passages[pair.right[0]].location,
+                        counterpart=ref.passages[pair.left[0]].location,
                     )
                 )
     return evidence

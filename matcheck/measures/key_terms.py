@@ -1,7 +1,7 @@
 """Key terms: what a lesson is about, by TF-IDF over its passages.
 
 Terms are lemmatised content words (spaCy stop words removed) and the bigrams of adjacent
-content words within a sentence. Each passage (prose block or table cell) is one document of
+content words within a sentence. Each passage (a prose block, or a whole table) is one document of
 the TF-IDF model (scikit-learn's ``TfidfVectorizer``: smoothed idf, l2-normalised rows); a
 term's weight in a version is the sum of its tf-idf over the version's passages, so a term
 that recurs across passages weighs more than one mentioned once.
@@ -10,10 +10,13 @@ that recurs across passages weighs more than one mentioned once.
 from __future__ import annotations
 
 from collections.abc import Iterator, Sequence
+from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from matcheck.language.analysis import PASSAGE_KINDS, Analysis, BlockAnalysis
+from matcheck.language.words import Word
 from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.model import BlockKind, Location
 from matcheck.settings import Settings
 
 if TYPE_CHECKING:
@@ -25,8 +28,22 @@ KEY_TERMS = MeasureSpec(
 SPECS = (KEY_TERMS,)
 
 
+@dataclass(frozen=True, slots=True)
+class Passage:
+    """A unit of content: one prose block, or one whole table (its cells in order).
+
+    A table is one passage because formats disagree about its cells: a PDF gives a table's
+    text back as lines, not cells, and a cell of two words says little on its own.
+    """
+
+    text: str
+    location: Location
+    words: tuple[Word, ...]
+    terms: tuple[str, ...]
+
+
 def passage_terms(item: BlockAnalysis) -> list[str]:
-    """Unigrams and within-sentence bigrams of one passage's content lemmas."""
+    """Unigrams and within-sentence bigrams of one block's content lemmas."""
     terms: list[str] = []
     for sentence in item.sentences:
         lemmas = sentence.terms
@@ -35,8 +52,36 @@ def passage_terms(item: BlockAnalysis) -> list[str]:
     return terms
 
 
-def passages(analysis: Analysis) -> tuple[BlockAnalysis, ...]:
-    return tuple(item for item in analysis.of(PASSAGE_KINDS) if item.words)
+def passages(analysis: Analysis) -> tuple[Passage, ...]:
+    """The passages of a version in reading order (prose blocks and whole tables)."""
+    units: list[Passage] = []
+    table: list[BlockAnalysis] = []
+
+    def close_table() -> None:
+        if table:
+            units.append(
+                Passage(
+                    " ".join(item.block.text for item in table),
+                    table[0].block.location,
+                    tuple(word for item in table for word in item.words),
+                    tuple(term for item in table for term in passage_terms(item)),
+                )
+            )
+            table.clear()
+
+    for item in analysis.of(PASSAGE_KINDS):
+        if item.block.kind is BlockKind.TABLE_CELL:
+            if table and table[0].block.group != item.block.group:
+                close_table()
+            table.append(item)
+            continue
+        close_table()
+        if item.words:
+            units.append(
+                Passage(item.block.text, item.block.location, item.words, tuple(passage_terms(item)))
+            )
+    close_table()
+    return tuple(units)
 
 
 def fit_tfidf(
@@ -79,7 +124,7 @@ def top_terms(weights: dict[str, float], count: int) -> list[tuple[str, float]]:
 
 def measure_key_terms(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
     units = passages(analysis)
-    term_lists = [passage_terms(item) for item in units]
+    term_lists = [list(unit.terms) for unit in units]
     if not any(term_lists):
         yield Measurement(KEY_TERMS, 0.0, note="no content words")
         return

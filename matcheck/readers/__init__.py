@@ -53,6 +53,13 @@ READERS: dict[str, Reader] = {
 }
 
 
+# What a format cannot show, so its measure is unknown rather than zero.
+UNDETECTED: dict[str, tuple[str, ...]] = {
+    # A PDF's text layer has no table structure; table text comes through as paragraphs.
+    "pdf": ("tables",),
+}
+
+
 def read(path: str | Path, limits: ReadLimits = DEFAULT_LIMITS) -> Document:
     """Read one lesson file.
 
@@ -82,6 +89,8 @@ def read(path: str | Path, limits: ReadLimits = DEFAULT_LIMITS) -> Document:
         head = handle.read(8192)
     fmt = sniff_format(head, path)
     document = READERS[fmt](path, limits)
+    if fmt in UNDETECTED:
+        document = replace(document, undetected=UNDETECTED[fmt])
     expected = EXTENSIONS.get(path.suffix.lower())
     if expected is not None and expected != fmt and {expected, fmt} != {"markdown", "text"}:
         document = replace(

@@ -55,27 +55,31 @@ def format_value(value: float | None, unit: str, dimension: str = "") -> str:
     return f"{value:,.{decimals}f}"
 
 
-def format_difference(finding: Finding) -> str:
+def format_difference(finding: Finding, *, short: bool = False) -> str:
+    """The difference; ``short`` gives only the percentage for relatively judged measures."""
     if finding.difference is None:
         return "—"
     if finding.group == "content":
         if finding.dimension == "key_term_coverage":
-            return f"{finding.difference * 100:.1f}% missing"
+            return f"{finding.difference * 100:.1f}% {'lost' if short else 'missing'}"
         return f"{int(finding.difference)}"
-    text = format_value(abs(finding.difference), finding.unit, finding.dimension)
     sign = "+" if finding.difference > 0 else "−" if finding.difference < 0 else "±"
     relative = finding.relative_difference
-    if relative is not None and finding.unit not in ("share", "grade", "points", "score"):
-        return f"{sign}{text} ({relative * 100:+.1f}%)"
+    tolerance = finding.tolerance
+    if short and relative is not None and tolerance is not None and tolerance.relative:
+        return f"{sign}{abs(relative) * 100:.1f}%"
+    text = format_value(abs(finding.difference), finding.unit, finding.dimension)
+    if not short and relative is not None and finding.difference and finding.unit not in ("share", "grade", "points", "score"):
+        return f"{sign}{text} ({relative * 100:+.0f}%)"
     return f"{sign}{text}"
 
 
-def format_tolerance(finding: Finding) -> str:
+def format_tolerance(finding: Finding, *, short: bool = False) -> str:
     if finding.tolerance is None:
         return "—"
     if finding.dimension == "key_term_coverage":
-        return f"≥ {(1 - finding.tolerance.absolute) * 100:g}% covered"
-    unit = "" if finding.unit == "share" else finding.unit
+        return f"≥{(1 - finding.tolerance.absolute) * 100:g}% covered"
+    unit = "" if finding.unit == "share" or short else finding.unit
     if finding.unit == "share" and finding.tolerance.absolute:
         return f"±{finding.tolerance.absolute * 100:g} points"
     return finding.tolerance.describe(unit)

@@ -43,7 +43,12 @@ def ordered_with_echoes(findings: list[Finding]) -> list[tuple[Finding, bool]]:
     return ordered
 
 
+def _short(name: str, width: int = 10) -> str:
+    return name if len(name) <= width else name[: width - 1] + "…"
+
+
 def render_table(report: Report, console: Console, *, show_matched: bool = True) -> None:
+    from rich import box
     from rich.table import Table
 
     for name in pairs(report):
@@ -51,42 +56,35 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
         table = Table(
             title=f"{report.reference} (reference) vs {name}",
             title_justify="left",
-            show_lines=False,
             header_style="bold",
+            box=box.SIMPLE_HEAD,
+            padding=(0, 1, 0, 0),
         )
-        for column, justify in (
-            ("Group", "left"),
-            ("Measure", "left"),
-            (report.reference, "right"),
-            (name, "right"),
-            ("Difference", "right"),
-            ("Tolerance", "right"),
-            ("Verdict", "left"),
-        ):
-            table.add_column(column, justify=justify)  # type: ignore[arg-type]
+        table.add_column("Verdict", no_wrap=True, width=12)
+        table.add_column("Measure", no_wrap=True, overflow="ellipsis")
+        table.add_column(_short(report.reference), justify="right", no_wrap=True, max_width=10)
+        table.add_column(_short(name), justify="right", no_wrap=True, max_width=10)
+        table.add_column("Diff.", justify="right", no_wrap=True, width=8)
+        table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
         for finding, is_echo in ordered_with_echoes(findings):
             if not show_matched and finding.status is Status.MATCHED:
                 continue
-            label = finding.dimension
-            if is_echo:
-                label = f"  ↳ {label}"
-            verdict = finding.status.value
-            if is_echo and finding.caused_by:
-                verdict += f" (follows {finding.caused_by})"
-            elif finding.status is Status.INCONCLUSIVE:
-                verdict += f" ({finding.reason})"
+            label = f" ↳ {finding.dimension}" if is_echo else finding.dimension
             table.add_row(
-                finding.group,
+                finding.status.value,
                 label,
                 format_value(finding.values.get(report.reference), finding.unit, finding.dimension),
                 format_value(finding.values.get(name), finding.unit, finding.dimension),
-                format_difference(finding),
-                format_tolerance(finding),
-                verdict,
+                format_difference(finding, short=True),
+                format_tolerance(finding, short=True),
                 style=STYLES[finding.status] if finding.status is not Status.MATCHED else None,
             )
         console.print(table)
-        located = [f for f in sorted_findings(findings) if f.evidence and f.status is not Status.MATCHED]
+        located = [
+            f
+            for f in sorted_findings(findings)
+            if f.status is not Status.MATCHED and (f.evidence or f.status is Status.INCONCLUSIVE)
+        ]
         if located:
             console.print("[bold]Where[/bold]")
             for finding in located:
@@ -95,6 +93,8 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
                     f"{finding.dimension}",
                     highlight=False,
                 )
+                if finding.status is Status.INCONCLUSIVE:
+                    console.print(f"  {finding.reason}", highlight=False)
                 for item in finding.evidence[:MAX_EVIDENCE_LINES]:
                     console.print(f"  • {describe_evidence(item)}", highlight=False, markup=False)
                 if len(finding.evidence) > MAX_EVIDENCE_LINES:
