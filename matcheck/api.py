@@ -85,7 +85,9 @@ def compare_versions(
     names = [version.name for version in versions]
     reference = reference or names[0]
     if reference not in names:
-        raise UsageError(f"--reference {reference!r} is not one of the versions: {', '.join(names)}")
+        raise UsageError(
+            f"--reference {reference!r} is not one of the versions: {', '.join(names)}"
+        )
     # Validate options before the (slower) reading.
     expand_manipulated(manipulated)
     tolerances = parse_tolerances(tolerance_overrides, known_dimensions())

@@ -7,6 +7,7 @@ at start-up, so ``matcheck --help`` is instant. Exit statuses (one place, matche
 
 from __future__ import annotations
 
+import io
 import sys
 import traceback
 from collections.abc import Sequence
@@ -17,7 +18,14 @@ from typing import Annotated
 import typer
 
 from matcheck import __version__
-from matcheck.errors import EXIT_BUG, EXIT_DIFFERS, EXIT_INPUT, EXIT_MATCHED, MatcheckError, UsageError
+from matcheck.errors import (
+    EXIT_BUG,
+    EXIT_DIFFERS,
+    EXIT_INPUT,
+    EXIT_MATCHED,
+    MatcheckError,
+    UsageError,
+)
 
 app = typer.Typer(
     name="matcheck",
@@ -163,7 +171,13 @@ def measures() -> int:
         table.add_column(column)
     for spec in CATALOGUE.values():
         tol = DEFAULT_TOLERANCES.get(spec.id)
-        table.add_row(spec.id, spec.group.value, spec.unit, tol.describe(spec.unit) if tol else "—", spec.description)
+        table.add_row(
+            spec.id,
+            spec.group.value,
+            spec.unit,
+            tol.describe(spec.unit) if tol else "—",
+            spec.description,
+        )
     for dimension, unit in CONTENT_DIMENSIONS.items():
         tol = DEFAULT_TOLERANCES[dimension]
         table.add_row(dimension, "content", unit, tol.describe(unit), tol.reason)
@@ -186,17 +200,9 @@ def _emit_rich(render: object, output: Path | None, inputs: Sequence[Path]) -> N
     if output is None:
         render(Console())  # type: ignore[operator]
         return
-    console = Console(record=True, width=140, file=_Null(), color_system=None)
+    console = Console(record=True, width=140, file=io.StringIO(), color_system=None)
     render(console)  # type: ignore[operator]
     _emit(console.export_text(), output, inputs)
-
-
-class _Null:
-    def write(self, text: str) -> int:
-        return len(text)
-
-    def flush(self) -> None:
-        pass
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -220,7 +226,7 @@ def main(argv: Sequence[str] | None = None) -> int:
             traceback.print_exc()
         sys.stderr.write(f"matcheck: error: {problem}\n")
         return problem.exit_code
-    except Exception as bug:  # noqa: BLE001 - the one place a bug becomes exit status 3
+    except Exception as bug:
         if _state["debug"]:
             traceback.print_exc()
         sys.stderr.write(

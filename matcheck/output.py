@@ -18,7 +18,9 @@ def write_output(output: Path, text: str, inputs: Sequence[Path]) -> None:
     """
     target = output.resolve()
     for path in inputs:
-        if path.exists() and (path.resolve() == target or (output.exists() and output.samefile(path))):
+        if path.exists() and (
+            path.resolve() == target or (output.exists() and output.samefile(path))
+        ):
             raise UsageError(f"--output {output} is one of the input files; choose another path")
     if output.is_dir():
         raise UsageError(f"--output {output} is a directory")

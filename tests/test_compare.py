@@ -21,7 +21,9 @@ FIXTURES = Path(__file__).resolve().parent.parent / "fixtures" / "demo"
 BASE = (FIXTURES / "text-only.md").read_text(encoding="utf-8")
 
 
-def _report(tmp_path: Path, text: str, *, manipulated: tuple[str, ...] = (), base: str = BASE) -> Report:
+def _report(
+    tmp_path: Path, text: str, *, manipulated: tuple[str, ...] = (), base: str = BASE
+) -> Report:
     (tmp_path / "images").mkdir(exist_ok=True)
     for image in (FIXTURES / "images").iterdir():
         (tmp_path / "images" / image.name).write_bytes(image.read_bytes())
@@ -89,7 +91,12 @@ def test_paragraph_replaced_by_another_subpoint_is_content_only(tmp_path: Path) 
         e.text for f in report.findings if f.dimension == "key_term_coverage" for e in f.evidence
     }
     passages = {f.dimension for f in report.root_findings(Status.DIFFERS)}
-    assert passages & {"passages_removed", "passages_added", "passages_rewritten", "key_term_coverage"}
+    assert passages & {
+        "passages_removed",
+        "passages_added",
+        "passages_rewritten",
+        "key_term_coverage",
+    }
     assert terms or passages
 
 

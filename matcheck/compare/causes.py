@@ -45,7 +45,13 @@ FIGURE_ECHOES = (
     "caption_words",
     "figures_without_alt_text",
 )
-EMPHASIS_ECHOES = ("bold_words", "italic_words", "underline_words", "highlight_words", "emphasized_terms")
+EMPHASIS_ECHOES = (
+    "bold_words",
+    "italic_words",
+    "underline_words",
+    "highlight_words",
+    "emphasized_terms",
+)
 MAX_EVIDENCE = 12
 _ACTIVE = (Status.DIFFERS, Status.INTENDED, Status.INCONCLUSIVE)
 
@@ -66,7 +72,9 @@ def explain(
     if active("list_items") and _opposite(by_id.get("paragraphs"), by_id.get("list_items")):
         causes["paragraphs"] = "list_items"
     elif active("passages_removed") or active("passages_added"):
-        causes["paragraphs"] = "passages_removed" if active("passages_removed") else "passages_added"
+        causes["paragraphs"] = (
+            "passages_removed" if active("passages_removed") else "passages_added"
+        )
     for formula in FORMULAS:
         for source in FORMULA_INPUTS:
             if active(source):
@@ -91,7 +99,8 @@ def explain(
                 finding = replace(
                     finding, status=Status.INTENDED, reason=f"follows from the manipulated {cause}"
                 )
-        if finding.status in _ACTIVE and not finding.evidence:
+        known = all(value is not None for value in finding.values.values())
+        if finding.status in _ACTIVE and known and not finding.evidence:
             evidence = _evidence(finding, ref, other, content)
             if evidence:
                 finding = replace(finding, evidence=tuple(evidence[:MAX_EVIDENCE]))
@@ -105,45 +114,46 @@ def _opposite(a: Finding | None, b: Finding | None) -> bool:
     return a.difference * b.difference < 0
 
 
-def _evidence(finding: Finding, ref: Profile, other: Profile, content: PairContent) -> list[Evidence]:
+def _evidence(
+    finding: Finding, ref: Profile, other: Profile, content: PairContent
+) -> list[Evidence]:
     dimension = finding.dimension
     if finding.caused_by:
         return []
     if dimension in ("words", "paragraphs", "sentences"):
         return [*content.removed, *content.added, *content.edits]
+    names = (finding.reference, finding.condition)
     if dimension == "words_per_sentence":
-        return _sentence_lengths_by_section(ref, other)
+        return _sentence_lengths_by_section(ref, other, names)
     if dimension == "headings" or dimension.startswith("headings_level"):
-        return _blocks_only_in_one(ref, other, BlockKind.HEADING, "heading")
+        return _blocks_only_in_one(ref, other, names, BlockKind.HEADING, "heading")
     if dimension in ("list_items", "lists"):
-        return _blocks_only_in_one(ref, other, BlockKind.LIST_ITEM, "list_item")
+        return _blocks_only_in_one(ref, other, names, BlockKind.LIST_ITEM, "list_item")
     if dimension == "tables":
-        return _blocks_only_in_one(ref, other, BlockKind.TABLE_CELL, "table_cell")
+        return _blocks_only_in_one(ref, other, names, BlockKind.TABLE_CELL, "table_cell")
     if dimension == "figures":
-        return _figures(ref, other)
+        return _figures(ref, other, names)
     if dimension in ("emphasized_words", *EMPHASIS_ECHOES):
-        return _emphasis(ref, other)
+        return _emphasis(ref, other, names)
     return []
 
 
-def _name(profile: Profile, finding_names: tuple[str, str], is_ref: bool) -> str:
-    return finding_names[0] if is_ref else finding_names[1]
-
-
-def _blocks_only_in_one(ref: Profile, other: Profile, kind: BlockKind, label: str) -> list[Evidence]:
+def _blocks_only_in_one(
+    ref: Profile, other: Profile, names: tuple[str, str], kind: BlockKind, label: str
+) -> list[Evidence]:
     evidence: list[Evidence] = []
     ref_texts = {b.text.lower() for b in ref.document.blocks_of(kind)}
     other_texts = {b.text.lower() for b in other.document.blocks_of(kind)}
     for block in ref.document.blocks_of(kind):
         if block.text.lower() not in other_texts:
-            evidence.append(Evidence(f"{label}_removed", ref.document.name, block.text, block.location))
+            evidence.append(Evidence(f"{label}_removed", names[0], block.text, block.location))
     for block in other.document.blocks_of(kind):
         if block.text.lower() not in ref_texts:
-            evidence.append(Evidence(f"{label}_added", other.document.name, block.text, block.location))
+            evidence.append(Evidence(f"{label}_added", names[1], block.text, block.location))
     return evidence
 
 
-def _figures(ref: Profile, other: Profile) -> list[Evidence]:
+def _figures(ref: Profile, other: Profile, names: tuple[str, str]) -> list[Evidence]:
     def label(figure_caption: str, alt: str, source: str) -> str:
         return figure_caption or alt or source
 
@@ -151,43 +161,53 @@ def _figures(ref: Profile, other: Profile) -> list[Evidence]:
     evidence = []
     for figure in other.document.figures:
         text = label(figure.caption, figure.alt_text, figure.source)
-        if text.lower() not in ref_labels or len(other.document.figures) > len(ref.document.figures):
-            evidence.append(Evidence("figure_added", other.document.name, text, figure.location))
+        if text.lower() not in ref_labels or len(other.document.figures) > len(
+            ref.document.figures
+        ):
+            evidence.append(Evidence("figure_added", names[1], text, figure.location))
     other_labels = {label(f.caption, f.alt_text, f.source).lower() for f in other.document.figures}
     for figure in ref.document.figures:
         text = label(figure.caption, figure.alt_text, figure.source)
-        if text.lower() not in other_labels or len(ref.document.figures) > len(other.document.figures):
-            evidence.append(Evidence("figure_removed", ref.document.name, text, figure.location))
+        if text.lower() not in other_labels or len(ref.document.figures) > len(
+            other.document.figures
+        ):
+            evidence.append(Evidence("figure_removed", names[0], text, figure.location))
     return evidence
 
 
-def _emphasis(ref: Profile, other: Profile) -> list[Evidence]:
+def _emphasis(ref: Profile, other: Profile, names: tuple[str, str]) -> list[Evidence]:
     def terms(profile: Profile) -> dict[str, float]:
         measurement = profile.get("emphasized_terms")
         return dict(measurement.items) if measurement else {}
 
     a, b = terms(ref), terms(other)
     evidence = [
-        Evidence("emphasis_added", other.document.name, term, weight=count)
+        Evidence("emphasis_added", names[1], term, weight=count)
         for term, count in b.items()
         if term not in a
     ]
     evidence += [
-        Evidence("emphasis_removed", ref.document.name, term, weight=count)
+        Evidence("emphasis_removed", names[0], term, weight=count)
         for term, count in a.items()
         if term not in b
     ]
     return evidence
 
 
-def _sentence_lengths_by_section(ref: Profile, other: Profile) -> list[Evidence]:
+def _sentence_lengths_by_section(
+    ref: Profile, other: Profile, names: tuple[str, str]
+) -> list[Evidence]:
     """Sections whose mean sentence length moved most, by heading text."""
 
     def by_section(profile: Profile) -> dict[str, tuple[float, int, object]]:
         sums: dict[str, list[int]] = {}
         first: dict[str, object] = {}
         for item in profile.analysis.blocks:
-            if item.block.kind not in (BlockKind.PARAGRAPH, BlockKind.LIST_ITEM, BlockKind.FOOTNOTE):
+            if item.block.kind not in (
+                BlockKind.PARAGRAPH,
+                BlockKind.LIST_ITEM,
+                BlockKind.FOOTNOTE,
+            ):
                 continue
             section = item.block.location.section or ""
             for sentence in item.sentences:
@@ -209,7 +229,7 @@ def _sentence_lengths_by_section(ref: Profile, other: Profile) -> list[Evidence]
         evidence.append(
             Evidence(
                 "sentence_length_changed",
-                other.document.name,
+                names[1],
                 f"{section or '(before the first heading)'}: {mean_a:.1f} → {mean_b:.1f} words "
                 f"per sentence ({n_a} → {n_b} sentences)",
                 location=location,  # type: ignore[arg-type]

@@ -36,7 +36,7 @@ IMPLIED: dict[str, tuple[str, ...]] = {
         "figures_unreadable",
     ),
     "words": ("reading_time", "characters"),
-    "headings": tuple(f"headings_level_{n}" for n in range(1, 7)) + ("sections",),
+    "headings": (*(f"headings_level_{n}" for n in range(1, 7)), "sections"),
     "list_items": ("lists",),
     "emphasized_words": (
         "bold_words",
@@ -91,7 +91,9 @@ def compare_profiles(
         if name == reference:
             continue
         content = compare_content(model, reference, name)
-        pair = list(_measure_findings(profiles[reference], profile, reference, name, intended, tolerances))
+        pair = list(
+            _measure_findings(profiles[reference], profile, reference, name, intended, tolerances)
+        )
         pair.extend(_content_findings(content, profiles, reference, name, intended, tolerances))
         findings.extend(causes.explain(pair, profiles[reference], profile, content))
     spreads = _spreads(profiles, findings) if len(profiles) > 2 else ()
@@ -128,7 +130,9 @@ def _measure_findings(
         tolerance = tolerances.get(measure_id, Tolerance(reason="exact by default"))
         test = None
         if measure_id in intended:
-            status, reason = decide(a, b, tolerance, intended=True, intended_by=intended[measure_id])
+            status, reason = decide(
+                a, b, tolerance, intended=True, intended_by=intended[measure_id]
+            )
         elif ref_m and other_m and ref_m.sample and other_m.sample:
             status, reason, test = decide_mean(ref_m.sample, other_m.sample, tolerance)
         else:
@@ -228,7 +232,9 @@ def _spreads(profiles: Mapping[str, Profile], findings: Sequence[Finding]) -> tu
         if dimension in CONTENT_DIMENSIONS:
             continue
         values = [
-            value for profile in profiles.values() if (value := profile.value(dimension)) is not None
+            value
+            for profile in profiles.values()
+            if (value := profile.value(dimension)) is not None
         ]
         if not values:
             continue

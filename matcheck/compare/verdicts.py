@@ -16,7 +16,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from matcheck.findings import Status, StatTest, Tolerance
+from matcheck.findings import StatTest, Status, Tolerance
 
 ALPHA = 0.05
 

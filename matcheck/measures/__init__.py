@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from matcheck.language.analysis import Analysis
 from matcheck.measures import figures, key_terms, length, readability, signaling, structure
-from matcheck.measures.base import Group, Measurement, MeasureFunction, MeasureSpec, Profile
+from matcheck.measures.base import Group, MeasureFunction, Measurement, MeasureSpec, Profile
 from matcheck.settings import Settings
 
 MEASURE_GROUPS: tuple[tuple[Group, MeasureFunction], ...] = (
@@ -36,4 +36,4 @@ def measure(analysis: Analysis, settings: Settings) -> Profile:
     return Profile(analysis, tuple(measurements))
 
 
-__all__ = ["CATALOGUE", "Group", "Measurement", "MeasureSpec", "Profile", "measure"]
+__all__ = ["CATALOGUE", "Group", "MeasureSpec", "Measurement", "Profile", "measure"]

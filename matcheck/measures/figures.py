@@ -40,7 +40,7 @@ def measure_figures(analysis: Analysis, settings: Settings) -> Iterator[Measurem
         yield Measurement(PIXEL_AREA, sum(pixel_areas) / 1e6, note=note)
     else:
         yield Measurement(PIXEL_AREA, None, note="no picture could be measured")
-    display = [area for figure in figures if (area := figure.display_area_cm2) is not None]
+    display = [cm2 for figure in figures if (cm2 := figure.display_area_cm2) is not None]
     if not figures:
         yield Measurement(DISPLAY_AREA, 0.0)
     elif len(display) == len(figures):

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
+from itertools import pairwise
 from typing import TYPE_CHECKING
 
 from matcheck.language.analysis import PASSAGE_KINDS, Analysis, BlockAnalysis
@@ -48,7 +49,7 @@ def passage_terms(item: BlockAnalysis) -> list[str]:
     for sentence in item.sentences:
         lemmas = sentence.terms
         terms.extend(lemmas)
-        terms.extend(f"{a} {b}" for a, b in zip(lemmas, lemmas[1:], strict=False))
+        terms.extend(f"{a} {b}" for a, b in pairwise(lemmas))
     return terms
 
 
@@ -78,7 +79,9 @@ def passages(analysis: Analysis) -> tuple[Passage, ...]:
         close_table()
         if item.words:
             units.append(
-                Passage(item.block.text, item.block.location, item.words, tuple(passage_terms(item)))
+                Passage(
+                    item.block.text, item.block.location, item.words, tuple(passage_terms(item))
+                )
             )
     close_table()
     return tuple(units)
@@ -105,7 +108,9 @@ def _identity(terms: list[str]) -> list[str]:
     return terms
 
 
-def term_weights(matrix: csr_matrix, rows: Sequence[int], vocabulary: list[str]) -> dict[str, float]:
+def term_weights(
+    matrix: csr_matrix, rows: Sequence[int], vocabulary: list[str]
+) -> dict[str, float]:
     """Sum of tf-idf per term over the given passage rows."""
     import numpy as np
 

@@ -59,5 +59,7 @@ def measure_signaling(analysis: Analysis, settings: Settings) -> Iterator[Measur
     yield Measurement(EMPHASIZED, float(any_count))
     for kind, spec in KIND_SPECS.items():
         yield Measurement(spec, float(per_kind[kind]))
-    items = tuple(sorted(((term, float(n)) for term, n in terms.items()), key=lambda t: (-t[1], t[0])))
+    items = tuple(
+        sorted(((term, float(n)) for term, n in terms.items()), key=lambda t: (-t[1], t[0]))
+    )
     yield Measurement(TERMS, float(len(terms)), items=items)

@@ -21,9 +21,7 @@ ALWAYS_LEVELS = 3
 
 
 def heading_level_spec(level: int) -> MeasureSpec:
-    return MeasureSpec(
-        f"headings_level_{level}", S, "headings", f"Headings at level {level}"
-    )
+    return MeasureSpec(f"headings_level_{level}", S, "headings", f"Headings at level {level}")
 
 
 SPECS = (

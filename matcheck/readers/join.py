@@ -26,7 +26,9 @@ def join_documents(parts: Sequence[Document]) -> Document:
             if paragraph is not None:
                 paragraphs += 1
                 paragraph = paragraphs
-            location = replace(block.location, block=offset + block.location.block, paragraph=paragraph)
+            location = replace(
+                block.location, block=offset + block.location.block, paragraph=paragraph
+            )
             blocks.append(replace(block, location=location))
         for figure in part.figures:
             location = replace(figure.location, block=offset + figure.location.block)

@@ -78,9 +78,7 @@ def sniff_format(head: bytes, path: Path) -> str:
         if head.startswith(magic):
             raise UnsupportedFormat(f"this is {what}, not a lesson document", path=shown)
     if _looks_binary(head):
-        raise UnsupportedFormat(
-            "the file is binary, not DOCX, PDF, Markdown or text", path=shown
-        )
+        raise UnsupportedFormat("the file is binary, not DOCX, PDF, Markdown or text", path=shown)
     if EXTENSIONS.get(path.suffix.lower()) == "text":
         return "text"
     if EXTENSIONS.get(path.suffix.lower()) in {"markdown", None}:

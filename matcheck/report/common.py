@@ -5,7 +5,15 @@ from __future__ import annotations
 from matcheck.findings import Evidence, Finding, Report, Status
 
 STATUS_ORDER = (Status.DIFFERS, Status.INCONCLUSIVE, Status.INTENDED, Status.MATCHED)
-GROUP_ORDER = ("length", "readability", "content", "figures", "structure", "signaling", "assessment")
+GROUP_ORDER = (
+    "length",
+    "readability",
+    "content",
+    "figures",
+    "structure",
+    "signaling",
+    "assessment",
+)
 
 EVIDENCE_LABELS = {
     "passage_removed": "passage removed",
@@ -69,7 +77,12 @@ def format_difference(finding: Finding, *, short: bool = False) -> str:
     if short and relative is not None and tolerance is not None and tolerance.relative:
         return f"{sign}{abs(relative) * 100:.1f}%"
     text = format_value(abs(finding.difference), finding.unit, finding.dimension)
-    if not short and relative is not None and finding.difference and finding.unit not in ("share", "grade", "points", "score"):
+    if (
+        not short
+        and relative is not None
+        and finding.difference
+        and finding.unit not in ("share", "grade", "points", "score")
+    ):
         return f"{sign}{text} ({relative * 100:+.0f}%)"
     return f"{sign}{text}"
 
@@ -87,6 +100,7 @@ def format_tolerance(finding: Finding, *, short: bool = False) -> str:
 
 def sorted_findings(findings: tuple[Finding, ...] | list[Finding]) -> list[Finding]:
     """Differences first, then by group and in catalogue order (stable)."""
+
     def key(finding: Finding) -> tuple[int, int]:
         group = GROUP_ORDER.index(finding.group) if finding.group in GROUP_ORDER else 99
         return STATUS_ORDER.index(finding.status), group
@@ -120,6 +134,4 @@ def describe_evidence(item: Evidence) -> str:
 
 
 def summary_counts(report: Report) -> dict[str, int]:
-    return {
-        status.value: len(report.root_findings(status)) for status in STATUS_ORDER
-    }
+    return {status.value: len(report.root_findings(status)) for status in STATUS_ORDER}

@@ -61,7 +61,11 @@ def finding_dict(finding: Finding) -> dict[str, Any]:
         "caused_by": finding.caused_by,
         "test": None
         if finding.test is None
-        else {"name": finding.test.name, "p_value": finding.test.p_value, "detail": finding.test.detail},
+        else {
+            "name": finding.test.name,
+            "p_value": finding.test.p_value,
+            "detail": finding.test.detail,
+        },
         "evidence": [_evidence(item) for item in finding.evidence],
     }
 

@@ -28,30 +28,45 @@ def _cell(text: str) -> str:
 def render_markdown(report: Report) -> str:
     counts = summary_counts(report)
     lines = ["## matcheck report", ""]
-    verdict = "**Possible confounds found.**" if report.differs else "**No differences beyond tolerance.**"
+    verdict = (
+        "**Possible confounds found.**"
+        if report.differs
+        else "**No differences beyond tolerance.**"
+    )
     lines.append(
         f"{verdict} {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
         f"{counts['intended']} intended, {counts['matched']} matched (root findings). "
         f"Reference: `{report.reference}`"
-        + (f"; manipulated: {', '.join(f'`{m}`' for m in report.manipulated)}." if report.manipulated else ".")
+        + (
+            f"; manipulated: {', '.join(f'`{m}`' for m in report.manipulated)}."
+            if report.manipulated
+            else "."
+        )
     )
     lines.append("")
     for name in pairs(report):
         findings = [f for f in report.findings if f.condition == name]
         lines += [f"### `{report.reference}` vs `{name}`", ""]
-        lines.append(f"| Group | Measure | {_cell(report.reference)} | {_cell(name)} | Difference | Tolerance | Verdict |")
-        lines.append("|---|---|--:|--:|--:|--:|---|")
+        header = [
+            f"| Group | Measure | {_cell(report.reference)} | {_cell(name)} "
+            "| Difference | Tolerance | Verdict |",
+            "|---|---|--:|--:|--:|--:|---|",
+        ]
+        lines += header
         matched = []
         for finding, is_echo in ordered_with_echoes(findings):
             label = f"↳ {finding.dimension}" if is_echo else finding.dimension
             verdict = ICONS[finding.status]
             if is_echo and finding.caused_by:
                 verdict += f" (follows `{finding.caused_by}`)"
+            ref_value = format_value(
+                finding.values.get(report.reference), finding.unit, finding.dimension
+            )
+            value = format_value(finding.values.get(name), finding.unit, finding.dimension)
             row = (
-                f"| {finding.group} | `{label}` | "
-                f"{format_value(finding.values.get(report.reference), finding.unit, finding.dimension)} | "
-                f"{format_value(finding.values.get(name), finding.unit, finding.dimension)} | "
-                f"{_cell(format_difference(finding))} | {_cell(format_tolerance(finding))} | {verdict} |"
+                f"| {finding.group} | `{label}` | {ref_value} | {value} | "
+                f"{_cell(format_difference(finding))} | {_cell(format_tolerance(finding))} "
+                f"| {verdict} |"
             )
             if finding.status is Status.MATCHED:
                 matched.append(row)
@@ -60,8 +75,7 @@ def render_markdown(report: Report) -> str:
         lines.append("")
         if matched:
             lines += [f"<details><summary>{len(matched)} matched measures</summary>", ""]
-            lines.append(f"| Group | Measure | {_cell(report.reference)} | {_cell(name)} | Difference | Tolerance | Verdict |")
-            lines.append("|---|---|--:|--:|--:|--:|---|")
+            lines += header
             lines += matched
             lines += ["", "</details>", ""]
         located = [f for f in findings if f.evidence and f.status is not Status.MATCHED]

@@ -71,8 +71,8 @@ def render_profiles_table(profiles: Sequence[Profile], console: Console) -> None
         table.add_column(profile.document.name, justify="right")
     ids: dict[str, Measurement] = {}
     for profile in profiles:
-        for m in profile.measurements:
-            ids.setdefault(m.spec.id, m)
+        for each in profile.measurements:
+            ids.setdefault(each.spec.id, each)
     last_group = None
     for measure_id, first in ids.items():
         cells = []
@@ -101,6 +101,7 @@ def render_profiles_table(profiles: Sequence[Profile], console: Console) -> None
             console.print(f"[yellow]warning[/yellow] {document.name}: {warning}", highlight=False)
         if document.excluded:
             console.print(
-                f"[dim]{document.name}: left out of the lesson text: {'; '.join(document.excluded)}[/dim]",
+                f"[dim]{document.name}: left out of the lesson text: "
+                f"{'; '.join(document.excluded)}[/dim]",
                 highlight=False,
             )

@@ -113,7 +113,11 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
     if report.spreads:
         _render_spread(report, console)
     counts = summary_counts(report)
-    verdict = "[bold red]possible confounds found[/]" if report.differs else "[bold green]no differences beyond tolerance[/]"
+    verdict = (
+        "[bold red]possible confounds found[/]"
+        if report.differs
+        else "[bold green]no differences beyond tolerance[/]"
+    )
     console.print(
         f"{verdict}: {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
         f"{counts['intended']} intended, {counts['matched']} matched "
