@@ -15,7 +15,7 @@ from pathlib import Path
 import pytest
 
 from matcheck.api import Version, compare_versions
-from matcheck.findings import Status
+from matcheck.findings import Report, Status
 
 TOPICS = {
     "Routers": ["router", "firmware", "antenna", "channel", "band", "admin page", "reset button"],
@@ -71,7 +71,7 @@ def render(sections: list[tuple[str, list[str]]], *, width: int | None = None) -
     return "\n".join(lines)
 
 
-def _compare(tmp_path: Path, a: str, b: str) -> tuple[object, object]:
+def _compare(tmp_path: Path, a: str, b: str) -> tuple[Report, set[str]]:
     (tmp_path / "a.md").write_text(a, encoding="utf-8")
     (tmp_path / "b.md").write_text(b, encoding="utf-8")
     report = compare_versions(
@@ -86,7 +86,7 @@ LENGTHS = [300, 2_000, 5_000, 20_000]
 @pytest.mark.parametrize("words", LENGTHS)
 def test_reflowed_copy_is_matched(tmp_path: Path, words: int) -> None:
     sections = make_lesson(words)
-    report, groups = _compare(tmp_path, render(sections), render(sections, width=60))
+    _, groups = _compare(tmp_path, render(sections), render(sections, width=60))
     assert groups == set()
 
 
@@ -111,9 +111,10 @@ def test_removed_forty_word_paragraph_is_found(tmp_path: Path, words: int) -> No
     ]
     report, groups = _compare(tmp_path, render(with_paragraph), render(sections))
     assert "content" in groups
-    removed = next(f for f in report.findings if f.dimension == "passages_removed")  # type: ignore[attr-defined]
+    removed = next(f for f in report.findings if f.dimension == "passages_removed")
     assert removed.status is Status.DIFFERS
     [evidence] = removed.evidence
+    assert evidence.location is not None
     assert evidence.location.section == heading
     assert evidence.text.startswith("Label both ends of every cable")
 
@@ -134,5 +135,5 @@ def test_sentences_joined_in_pairs_are_readability_only(tmp_path: Path, words: i
         return ". ".join(out)
 
     longer = [(heading, [joined(p) for p in paragraphs]) for heading, paragraphs in sections]
-    report, groups = _compare(tmp_path, render(sections), render(longer))
+    _, groups = _compare(tmp_path, render(sections), render(longer))
     assert groups == {"readability"}
