@@ -127,7 +127,8 @@ def test_alignment_cosine_log_tf(a: str, b: str, expected: float) -> None:
 @pytest.mark.parametrize(("b", "expected"), [("PaP", 0.9993), ("WH", 0.8889)])
 def test_alignment_cosine_raw_tf_book_variant(b: str, expected: float) -> None:
     # The book's Figs 6.12-6.13 use raw tf of affection, jealous and gossip only.
-    sims = _aligned_similarity([MRS_COUNTS["SaS"][:3]], [MRS_COUNTS[b][:3]])
+    raw = {name: [float(tf) for tf in counts[:3]] for name, counts in MRS_COUNTS.items()}
+    sims = _aligned_similarity([raw["SaS"]], [raw[b]])
     assert sims == [pytest.approx(expected, abs=5e-4)]
 
 
