@@ -277,3 +277,20 @@ def test_tolerance_override_changes_the_verdict(tmp_path: Path) -> None:
     )
     assert strict.differs
     assert "words_per_sentence" not in differing(loose)
+
+
+@pytest.mark.parametrize("version", ["text-only", "diagrams", "diagrams-confounded"])
+def test_same_lesson_in_docx_pdf_and_markdown_is_matched(version: str) -> None:
+    # The three formats are rendered from one source (scripts/build_fixtures.py): page
+    # numbers, running headers, line breaks and the PDF's lack of table markup are not content.
+    report = compare_versions(
+        [
+            Version("docx", (FIXTURES / f"{version}.docx",)),
+            Version("pdf", (FIXTURES / f"{version}.pdf",)),
+            Version("markdown", (FIXTURES / f"{version}.md",)),
+        ]
+    )
+    assert not report.differs, differing(report)
+    unknown = {f.dimension for f in report.findings if f.status is Status.INCONCLUSIVE}
+    # Only what a format cannot show: PDF tables, Markdown display sizes.
+    assert unknown <= {"tables", "figure_display_area"}
