@@ -121,10 +121,10 @@ def test_markdown_lists_nesting_groups_and_loose_items(tmp_path: Path) -> None:
     ]
     assert [item.level for item in items] == [1, 1, 2, 2, 1, 1, 1, 1]
     groups = [item.group for item in items]
-    # Three lists: the outer bullet list, its nested list (its own group), the ordered list.
-    assert len(set(groups)) == 3
-    assert groups[0] == groups[1] == groups[4]
-    assert groups[2] == groups[3] != groups[0]
+    # Two lists: the outer bullet list with its nested items (a nested list belongs to its
+    # outer list, as DOCX numbering keeps it), and the ordered list.
+    assert len(set(groups)) == 2
+    assert groups[0] == groups[1] == groups[2] == groups[3] == groups[4]
     assert groups[5] == groups[6] == groups[7] not in groups[:5]
     assert _texts(document, BlockKind.PARAGRAPH) == ["Between the lists."]
     assert [item.location.line for item in items] == [1, 2, 3, 4, 5, 9, 11, 13]

@@ -9,7 +9,6 @@ construction; the layout thresholds they exercise are common practice.
 from __future__ import annotations
 
 import re
-import time
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any
@@ -492,13 +491,10 @@ def test_page_limit(tmp_path: Path) -> None:
     assert read_pdf(path, ReadLimits(max_pages=3)).pages == 3
 
 
-def test_hundred_pages_read_fast_and_whole(tmp_path: Path) -> None:
+def test_hundred_pages_read_whole(tmp_path: Path) -> None:
+    # Speed is measured in benchmarks/run.py, not asserted here.
     path = _pages(tmp_path, 100, paragraphs=10)
-    start = time.perf_counter()
     document = read_pdf(path, DEFAULT_LIMITS)
-    elapsed = time.perf_counter() - start
-    # The brief's budget for 100 pages is "a few seconds" (generous here for slow machines).
-    assert elapsed < 5.0
     assert document.pages == 100
     texts = [block.text for block in document.blocks]
     assert len(texts) == 1000

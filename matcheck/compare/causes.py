@@ -26,24 +26,25 @@ from dataclasses import replace
 from matcheck.compare.content import PairContent
 from matcheck.findings import Evidence, Finding, Status
 from matcheck.measures.base import Profile
-from matcheck.model import BlockKind
+from matcheck.model import BlockKind, Figure
 
-FORMULA_INPUTS = ("words_per_sentence", "syllables_per_word", "rare_words_share")
-FORMULAS = (
-    "flesch_reading_ease",
-    "flesch_kincaid_grade",
-    "gunning_fog",
-    "smog",
-    "coleman_liau",
-    "automated_readability",
-    "dale_chall",
-)
+# Each grade formula and the comparable means that stand for its inputs.
+FORMULA_INPUTS: dict[str, tuple[str, ...]] = {
+    "flesch_reading_ease": ("words_per_sentence", "syllables_per_word"),
+    "flesch_kincaid_grade": ("words_per_sentence", "syllables_per_word"),
+    "gunning_fog": ("words_per_sentence", "syllables_per_word"),
+    "smog": ("words_per_sentence", "syllables_per_word"),
+    "coleman_liau": ("words_per_sentence", "long_words_share"),
+    "automated_readability": ("words_per_sentence", "long_words_share"),
+    "dale_chall": ("words_per_sentence", "rare_words_share"),
+}
 FIGURE_ECHOES = (
     "figure_pixel_area",
     "figure_display_area",
     "captions",
     "caption_words",
     "figures_without_alt_text",
+    "figures_unreadable",
 )
 EMPHASIS_ECHOES = (
     "bold_words",
@@ -75,8 +76,8 @@ def explain(
         causes["paragraphs"] = (
             "passages_removed" if active("passages_removed") else "passages_added"
         )
-    for formula in FORMULAS:
-        for source in FORMULA_INPUTS:
+    for formula, inputs in FORMULA_INPUTS.items():
+        for source in inputs:
             if active(source):
                 causes[formula] = source
                 break
@@ -98,6 +99,11 @@ def explain(
             if root.status is Status.INTENDED and finding.status is not Status.INTENDED:
                 finding = replace(
                     finding, status=Status.INTENDED, reason=f"follows from the manipulated {cause}"
+                )
+            elif root.status is Status.INCONCLUSIVE and finding.status is Status.DIFFERS:
+                # An echo cannot be surer than its cause.
+                finding = replace(
+                    finding, status=Status.INCONCLUSIVE, reason=f"follows {cause}, inconclusive"
                 )
         known = all(value is not None for value in finding.values.values())
         if finding.status in _ACTIVE and known and not finding.evidence:
@@ -154,24 +160,32 @@ def _blocks_only_in_one(
 
 
 def _figures(ref: Profile, other: Profile, names: tuple[str, str]) -> list[Evidence]:
-    def label(figure_caption: str, alt: str, source: str) -> str:
-        return figure_caption or alt or source
+    """Figures whose label (caption, alt text or source) the other version lacks; when the
+    labels do not tell them apart, every figure of the version with more."""
 
-    ref_labels = {label(f.caption, f.alt_text, f.source).lower() for f in ref.document.figures}
-    evidence = []
-    for figure in other.document.figures:
-        text = label(figure.caption, figure.alt_text, figure.source)
-        if text.lower() not in ref_labels or len(other.document.figures) > len(
-            ref.document.figures
-        ):
-            evidence.append(Evidence("figure_added", names[1], text, figure.location))
-    other_labels = {label(f.caption, f.alt_text, f.source).lower() for f in other.document.figures}
-    for figure in ref.document.figures:
-        text = label(figure.caption, figure.alt_text, figure.source)
-        if text.lower() not in other_labels or len(ref.document.figures) > len(
-            other.document.figures
-        ):
-            evidence.append(Evidence("figure_removed", names[0], text, figure.location))
+    def label(figure: Figure) -> str:
+        return figure.caption or figure.alt_text or figure.source
+
+    ref_figures, other_figures = ref.document.figures, other.document.figures
+    ref_labels = {label(f).lower() for f in ref_figures}
+    other_labels = {label(f).lower() for f in other_figures}
+    evidence = [
+        Evidence("figure_added", names[1], label(f), f.location)
+        for f in other_figures
+        if label(f).lower() not in ref_labels
+    ]
+    evidence += [
+        Evidence("figure_removed", names[0], label(f), f.location)
+        for f in ref_figures
+        if label(f).lower() not in other_labels
+    ]
+    if not evidence and len(ref_figures) != len(other_figures):
+        larger, name, kind = (
+            (other_figures, names[1], "figure_added")
+            if len(other_figures) > len(ref_figures)
+            else (ref_figures, names[0], "figure_removed")
+        )
+        evidence = [Evidence(kind, name, label(f), f.location) for f in larger]
     return evidence
 
 

@@ -87,6 +87,17 @@ for _kind in ("bold", "italic", "underline", "highlight"):
         relative=0.05, absolute=2, reason=f"5% (at least 2 words); {JUDGMENT}"
     )
 
+# Content findings count differences (or a shortfall) from zero: a share of zero is nothing.
+COUNTED_FROM_ZERO = frozenset(
+    {
+        "key_term_coverage",
+        "passages_removed",
+        "passages_added",
+        "passages_rewritten",
+        "passages_moved",
+    }
+)
+
 _OVERRIDE = re.compile(r"^\s*([a-z0-9_]+)\s*=\s*([0-9]*\.?[0-9]+)\s*(%?)\s*$")
 
 
@@ -109,6 +120,11 @@ def parse_tolerances(
                 f"--tolerance {text!r}: unknown measure {name!r} (see `matcheck measures`)"
             )
         value = float(number)
+        if percent and name in COUNTED_FROM_ZERO:
+            raise UsageError(
+                f"--tolerance {text!r}: {name} is a count of differences, so give a number "
+                f"(e.g. {name}=1), not a percentage"
+            )
         tolerances[name] = (
             Tolerance(relative=value / 100, reason="set by the user")
             if percent

@@ -9,7 +9,8 @@ Which blocks count for what (documented in docs/measures.md):
   figures it describes and is measured in the ``figures`` group;
 - *prose* blocks (paragraphs, list items, footnotes) are the running text that readability
   formulas were made for; headings and table cells are not sentences;
-- *passages* (prose blocks and table cells) are the units the content comparison aligns.
+- *passage* blocks (prose blocks and table cells) are what the content comparison reads;
+  :func:`matcheck.measures.key_terms.passages` makes each whole table one passage.
 
 A block boundary always ends a sentence: a list item without a full stop is one sentence.
 """

@@ -14,7 +14,9 @@ HEADINGS = MeasureSpec("headings", S, "headings", "Headings at every level")
 SECTIONS = MeasureSpec(
     "sections", S, "sections", "Sections: headings at the top level used below the title"
 )
-LISTS = MeasureSpec("lists", S, "lists", "Bulleted or numbered lists (a nested list counts)")
+LISTS = MeasureSpec(
+    "lists", S, "lists", "Bulleted or numbered lists (a nested list is part of its outer list)"
+)
 LIST_ITEMS = MeasureSpec("list_items", S, "items", "List items")
 TABLES = MeasureSpec("tables", S, "tables", "Tables")
 ALWAYS_LEVELS = 3

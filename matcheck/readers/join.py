@@ -44,4 +44,5 @@ def join_documents(parts: Sequence[Document]) -> Document:
         pages=sum(p for p in pages if p) if any(pages) else None,
         excluded=tuple(excluded),
         warnings=tuple(warnings),
+        undetected=tuple(dict.fromkeys(u for part in parts for u in part.undetected)),
     )

@@ -190,7 +190,8 @@ class _Walker:
         for index, token in enumerate(tokens):
             kind = token.type
             if kind in ("bullet_list_open", "ordered_list_open"):
-                self.lists.append(self.builder.new_group())
+                # A nested list belongs to its outer list, as in DOCX numbering and in PDF.
+                self.lists.append(self.lists[-1] if self.lists else self.builder.new_group())
             elif kind in ("bullet_list_close", "ordered_list_close"):
                 self.lists.pop()
             elif kind == "table_open":
@@ -209,7 +210,8 @@ class _Walker:
             elif kind == "inline" and index not in self.consumed:
                 self._inline_block(tokens, index)
         if self.code_blocks:
-            self.builder.exclude(f"{self.code_blocks} code blocks")
+            plural = "s" if self.code_blocks != 1 else ""
+            self.builder.exclude(f"{self.code_blocks} code block{plural}")
 
     # -- blocks ------------------------------------------------------------------------------
 

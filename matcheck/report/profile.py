@@ -17,10 +17,15 @@ if TYPE_CHECKING:
 TERMS_SHOWN = 8
 
 
+LISTED = {"key_terms": "weight", "emphasized_terms": "count"}
+
+
 def _value(measurement: Measurement) -> Any:
-    if measurement.items and measurement.spec.id == "key_terms":
+    """A listing measure's value is its list (possibly empty); others their number."""
+    field = LISTED.get(measurement.spec.id)
+    if field == "weight":
         return [{"term": term, "weight": round(weight, 6)} for term, weight in measurement.items]
-    if measurement.items:
+    if field == "count":
         return [{"term": term, "count": int(count)} for term, count in measurement.items]
     return measurement.value
 
@@ -40,7 +45,7 @@ def profiles_dict(profiles: Sequence[Profile]) -> dict[str, Any]:
                         "group": m.spec.group.value,
                         "value": _value(m),
                         "unit": m.spec.unit,
-                        **({"count": m.value} if m.items else {}),
+                        **({"count": m.value} if m.spec.id in LISTED else {}),
                         **({"note": m.note} if m.note else {}),
                     }
                     for m in profile.measurements
