@@ -14,7 +14,8 @@ from matcheck.findings import Condition, Report
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 from matcheck.measures.base import Profile
 from matcheck.model import Document
-from matcheck.settings import Settings
+from matcheck.settings import DEFAULT_WPM, Settings
+from matcheck.study import Study
 
 
 @dataclass(frozen=True, slots=True)
@@ -114,4 +115,66 @@ def compare_versions(
         findings=findings,
         spreads=spreads,
         words_per_minute=settings.words_per_minute,
+    )
+
+
+def check_study(
+    study: Study,
+    *,
+    settings: Settings | None = None,
+    limits: ReadLimits = DEFAULT_LIMITS,
+    extra_tolerances: Sequence[str] = (),
+) -> Report:
+    """Compare a study's conditions as its design requires (see :func:`study.comparisons`)."""
+    from matcheck.compare.engine import compare_pairs, known_dimensions
+    from matcheck.compare.tolerances import parse_tolerances
+    from matcheck.findings import Pairing
+    from matcheck.study import comparisons
+
+    if settings is None:
+        settings = Settings(words_per_minute=study.reading_rate or DEFAULT_WPM)
+    tolerances = parse_tolerances([*study.tolerances, *extra_tolerances], known_dimensions())
+    profiles: dict[str, Profile] = {}
+    conditions = []
+    for condition in study.conditions:
+        document = read_version(Version(condition.name, condition.files), limits)
+        profiles[condition.name] = profile_document(document, settings)
+        conditions.append(
+            Condition(
+                name=condition.name,
+                paths=tuple(str(path) for path in condition.files),
+                format=document.format,
+                is_reference=condition.name == study.reference,
+                warnings=document.warnings,
+                excluded=document.excluded,
+            )
+        )
+    pairs = comparisons(study)
+    findings, spreads = compare_pairs(
+        profiles, [(p.reference, p.condition, p.manipulated) for p in pairs], tolerances
+    )
+    warnings: tuple[str, ...] = ()
+    if study.posttest:
+        from matcheck.compare.assessment import assess_posttest
+        from matcheck.readers.posttest import read_posttest
+
+        items = [item for path in study.posttest for item in read_posttest(path, limits)]
+        extra, warnings = assess_posttest(
+            items,
+            {name: profile.analysis for name, profile in profiles.items()},
+            [(p.reference, p.condition) for p in pairs],
+            threshold=study.coverage_threshold,
+        )
+        findings = (*findings, *extra)
+    manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
+    return Report(
+        conditions=tuple(conditions),
+        reference=study.reference,
+        manipulated=manipulated,
+        findings=findings,
+        spreads=spreads,
+        words_per_minute=settings.words_per_minute,
+        pairings=tuple(Pairing(p.reference, p.condition, p.manipulated, p.factor) for p in pairs),
+        title=study.title,
+        warnings=warnings,
     )

@@ -13,7 +13,7 @@ import traceback
 from collections.abc import Sequence
 from enum import StrEnum
 from pathlib import Path
-from typing import Annotated
+from typing import TYPE_CHECKING, Annotated
 
 import typer
 
@@ -26,6 +26,9 @@ from matcheck.errors import (
     MatcheckError,
     UsageError,
 )
+
+if TYPE_CHECKING:
+    from matcheck.findings import Report
 
 app = typer.Typer(
     name="matcheck",
@@ -141,18 +144,45 @@ def compare(
         tolerance_overrides=tolerance or (),
         settings=Settings(words_per_minute=wpm),
     )
+    _render_report(report, format, output, files)
+    return EXIT_DIFFERS if report.differs else EXIT_MATCHED
+
+
+def _render_report(
+    report: Report, format: CompareFormat, output: Path | None, inputs: Sequence[Path]
+) -> None:
     if format is CompareFormat.json:
         from matcheck.report.json_report import render_json
 
-        _emit(render_json(report), output, files)
+        _emit(render_json(report), output, inputs)
     elif format is CompareFormat.markdown:
         from matcheck.report.markdown import render_markdown
 
-        _emit(render_markdown(report), output, files)
+        _emit(render_markdown(report), output, inputs)
     else:
         from matcheck.report.table import render_table
 
-        _emit_rich(lambda console: render_table(report, console), output, files)
+        _emit_rich(lambda console: render_table(report, console), output, inputs)
+
+
+@app.command()
+def check(
+    study: Annotated[Path, typer.Argument(help="A study file (TOML; see docs/study-file.md).")],
+    tolerance: Annotated[
+        list[str] | None,
+        typer.Option("--tolerance", "-t", help="Override the study's tolerance: MEASURE=VALUE."),
+    ] = None,
+    format: Annotated[CompareFormat, typer.Option("--format", "-f")] = CompareFormat.table,
+    output: Output = None,
+) -> int:
+    """Check a study: compare its conditions as the design requires, and its post-test."""
+    from matcheck.api import check_study
+    from matcheck.study import load_study
+
+    loaded = load_study(study)
+    report = check_study(loaded, extra_tolerances=tolerance or ())
+    inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
+    _render_report(report, format, output, inputs)
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
 
 

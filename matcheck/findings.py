@@ -129,6 +129,16 @@ class Spread:
 
 
 @dataclass(frozen=True, slots=True)
+class Pairing:
+    """One comparison the report makes: ``condition`` against ``reference``."""
+
+    reference: str
+    condition: str
+    manipulated: tuple[str, ...] = ()
+    factor: str | None = None
+
+
+@dataclass(frozen=True, slots=True)
 class Report:
     conditions: tuple[Condition, ...]
     reference: str
@@ -137,6 +147,26 @@ class Report:
     spreads: tuple[Spread, ...] = ()
     words_per_minute: float = 238.0
     notes: tuple[str, ...] = field(default=(NOT_PROOF,))
+    pairings: tuple[Pairing, ...] = ()
+    title: str = ""
+    warnings: tuple[str, ...] = ()
+
+    def pairs(self) -> tuple[Pairing, ...]:
+        """The comparisons in order (every condition against the reference by default)."""
+        if self.pairings:
+            return self.pairings
+        return tuple(
+            Pairing(self.reference, c.name, self.manipulated)
+            for c in self.conditions
+            if c.name != self.reference
+        )
+
+    def findings_of(self, pairing: Pairing) -> tuple[Finding, ...]:
+        return tuple(
+            f
+            for f in self.findings
+            if f.reference == pairing.reference and f.condition == pairing.condition
+        )
 
     @property
     def differs(self) -> bool:
@@ -149,5 +179,7 @@ class Report:
         return tuple(
             f
             for f in self.findings
-            if f.caused_by == finding.dimension and f.condition == finding.condition
+            if f.caused_by == finding.dimension
+            and f.condition == finding.condition
+            and f.reference == finding.reference
         )

@@ -84,18 +84,28 @@ def compare_profiles(
     tolerances: Mapping[str, Tolerance],
 ) -> tuple[tuple[Finding, ...], tuple[Spread, ...]]:
     """All findings of every version against ``reference``, and the spread over all."""
-    intended = expand_manipulated(manipulated)
+    pairs = [(reference, name, tuple(manipulated)) for name in profiles if name != reference]
+    return compare_pairs(profiles, pairs, tolerances)
+
+
+def compare_pairs(
+    profiles: Mapping[str, Profile],
+    pairs: Sequence[tuple[str, str, tuple[str, ...]]],
+    tolerances: Mapping[str, Tolerance],
+) -> tuple[tuple[Finding, ...], tuple[Spread, ...]]:
+    """Findings for each ``(reference, condition, manipulated)`` pair, and the spread.
+
+    One content model (TF-IDF over the passages of every version) serves all pairs.
+    """
     model = build_model({name: profile.analysis for name, profile in profiles.items()})
     findings: list[Finding] = []
-    for name, profile in profiles.items():
-        if name == reference:
-            continue
+    for reference, name, manipulated in pairs:
+        intended = expand_manipulated(manipulated)
+        ref, profile = profiles[reference], profiles[name]
         content = compare_content(model, reference, name)
-        pair = list(
-            _measure_findings(profiles[reference], profile, reference, name, intended, tolerances)
-        )
+        pair = list(_measure_findings(ref, profile, reference, name, intended, tolerances))
         pair.extend(_content_findings(content, profiles, reference, name, intended, tolerances))
-        findings.extend(causes.explain(pair, profiles[reference], profile, content))
+        findings.extend(causes.explain(pair, ref, profile, content))
     spreads = _spreads(profiles, findings) if len(profiles) > 2 else ()
     return tuple(findings), spreads
 

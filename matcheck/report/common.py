@@ -108,11 +108,6 @@ def sorted_findings(findings: tuple[Finding, ...] | list[Finding]) -> list[Findi
     return sorted(findings, key=key)
 
 
-def pairs(report: Report) -> list[str]:
-    """The conditions compared with the reference, in order."""
-    return [c.name for c in report.conditions if c.name != report.reference]
-
-
 def describe_evidence(item: Evidence) -> str:
     label = EVIDENCE_LABELS.get(item.kind, item.kind.replace("_", " "))
     where = f" — {item.location.describe()}" if item.location else ""

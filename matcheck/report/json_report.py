@@ -75,8 +75,18 @@ def report_dict(report: Report) -> dict[str, Any]:
     return {
         "schema_version": SCHEMA_VERSION,
         "tool": {"name": "matcheck", "version": __version__},
+        "title": report.title or None,
         "reference": report.reference,
         "manipulated": list(report.manipulated),
+        "comparisons": [
+            {
+                "reference": p.reference,
+                "condition": p.condition,
+                "manipulated": list(p.manipulated),
+                "factor": p.factor,
+            }
+            for p in report.pairs()
+        ],
         "words_per_minute": report.words_per_minute,
         "conditions": [
             {
@@ -106,6 +116,7 @@ def report_dict(report: Report) -> dict[str, Any]:
             }
             for s in report.spreads
         ],
+        "warnings": list(report.warnings),
         "notes": list(report.notes),
     }
 

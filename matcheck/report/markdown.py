@@ -8,7 +8,6 @@ from matcheck.report.common import (
     format_difference,
     format_tolerance,
     format_value,
-    pairs,
     summary_counts,
 )
 from matcheck.report.table import ordered_with_echoes
@@ -44,11 +43,15 @@ def render_markdown(report: Report) -> str:
         )
     )
     lines.append("")
-    for name in pairs(report):
-        findings = [f for f in report.findings if f.condition == name]
-        lines += [f"### `{report.reference}` vs `{name}`", ""]
+    for pairing in report.pairs():
+        name, reference = pairing.condition, pairing.reference
+        findings = list(report.findings_of(pairing))
+        heading = f"### `{reference}` vs `{name}`"
+        if pairing.factor:
+            heading += f" (contrast of {pairing.factor})"
+        lines += [heading, ""]
         header = [
-            f"| Group | Measure | {_cell(report.reference)} | {_cell(name)} "
+            f"| Group | Measure | {_cell(reference)} | {_cell(name)} "
             "| Difference | Tolerance | Verdict |",
             "|---|---|--:|--:|--:|--:|---|",
         ]
@@ -59,9 +62,7 @@ def render_markdown(report: Report) -> str:
             verdict = ICONS[finding.status]
             if is_echo and finding.caused_by:
                 verdict += f" (follows `{finding.caused_by}`)"
-            ref_value = format_value(
-                finding.values.get(report.reference), finding.unit, finding.dimension
-            )
+            ref_value = format_value(finding.values.get(reference), finding.unit, finding.dimension)
             value = format_value(finding.values.get(name), finding.unit, finding.dimension)
             row = (
                 f"| {finding.group} | `{label}` | {ref_value} | {value} | "
@@ -87,6 +88,8 @@ def render_markdown(report: Report) -> str:
             lines.append("")
             lines += [f"- {_cell(describe_evidence(item))}" for item in finding.evidence]
             lines += ["", "</details>", ""]
+    for warning in report.warnings:
+        lines.append(f"> ⚠️ {warning}")
     for condition in report.conditions:
         for warning in condition.warnings:
             lines.append(f"> ⚠️ `{condition.name}`: {warning}")

@@ -4,13 +4,12 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
-from matcheck.findings import Finding, Report, Status
+from matcheck.findings import Finding, Pairing, Report, Status
 from matcheck.report.common import (
     describe_evidence,
     format_difference,
     format_tolerance,
     format_value,
-    pairs,
     sorted_findings,
     summary_counts,
 )
@@ -43,6 +42,15 @@ def ordered_with_echoes(findings: list[Finding]) -> list[tuple[Finding, bool]]:
     return ordered
 
 
+def _pair_title(pairing: Pairing) -> str:
+    title = f"{pairing.reference} (reference) vs {pairing.condition}"
+    if pairing.factor:
+        title += f" — contrast of {pairing.factor}"
+    if pairing.manipulated:
+        title += f"; manipulated: {', '.join(pairing.manipulated)}"
+    return title
+
+
 def _short(name: str, width: int = 10) -> str:
     return name if len(name) <= width else name[: width - 1] + "…"
 
@@ -51,10 +59,11 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
     from rich import box
     from rich.table import Table
 
-    for name in pairs(report):
-        findings = [f for f in report.findings if f.condition == name]
+    for pairing in report.pairs():
+        name, reference = pairing.condition, pairing.reference
+        findings = list(report.findings_of(pairing))
         table = Table(
-            title=f"{report.reference} (reference) vs {name}",
+            title=_pair_title(pairing),
             title_justify="left",
             header_style="bold",
             box=box.SIMPLE_HEAD,
@@ -62,7 +71,7 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
         )
         table.add_column("Verdict", no_wrap=True, width=12)
         table.add_column("Measure", no_wrap=True, overflow="ellipsis")
-        table.add_column(_short(report.reference), justify="right", no_wrap=True, max_width=10)
+        table.add_column(_short(reference), justify="right", no_wrap=True, max_width=10)
         table.add_column(_short(name), justify="right", no_wrap=True, max_width=10)
         table.add_column("Diff.", justify="right", no_wrap=True, width=8)
         table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
@@ -73,7 +82,7 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
             table.add_row(
                 finding.status.value,
                 label,
-                format_value(finding.values.get(report.reference), finding.unit, finding.dimension),
+                format_value(finding.values.get(reference), finding.unit, finding.dimension),
                 format_value(finding.values.get(name), finding.unit, finding.dimension),
                 format_difference(finding, short=True),
                 format_tolerance(finding, short=True),
@@ -101,6 +110,8 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
                     extra = len(finding.evidence) - MAX_EVIDENCE_LINES
                     console.print(f"  … and {extra} more (see --format json)", highlight=False)
         console.print()
+    for warning in report.warnings:
+        console.print(f"[yellow]warning[/yellow] {warning}", highlight=False)
     for condition in report.conditions:
         for warning in condition.warnings:
             console.print(f"[yellow]warning[/yellow] {condition.name}: {warning}", highlight=False)

@@ -1,0 +1,284 @@
+"""The study file: a study's conditions, factors, tolerances and post-test, in TOML.
+
+The format is documented in docs/study-file.md. :func:`load_study` reads and validates it
+once; every message names the key and what is wrong. Paths are relative to the study file.
+:func:`comparisons` derives, from the design, which pairs of conditions must be compared and
+what each pair may differ in.
+"""
+
+from __future__ import annotations
+
+import tomllib
+from collections.abc import Mapping
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from matcheck.errors import ConfigError
+
+TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest"}
+STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
+FACTOR_KEYS = {"levels", "manipulates", "description"}
+CONDITION_KEYS = {"name", "files", "levels", "description"}
+POSTTEST_KEYS = {"files", "coverage_threshold"}
+
+
+@dataclass(frozen=True, slots=True)
+class Factor:
+    name: str
+    levels: tuple[str, ...]
+    manipulates: tuple[str, ...]
+
+
+@dataclass(frozen=True, slots=True)
+class StudyCondition:
+    name: str
+    files: tuple[Path, ...]
+    levels: dict[str, str]
+
+
+@dataclass(frozen=True, slots=True)
+class Comparison:
+    """One pair to compare: ``condition`` against ``reference``, ``manipulated`` allowed.
+
+    ``factor`` names the factor whose contrast this pair is (``None`` for a design without
+    factors, where every condition is compared with the reference).
+    """
+
+    reference: str
+    condition: str
+    manipulated: tuple[str, ...]
+    factor: str | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class Study:
+    path: Path
+    title: str
+    reference: str
+    conditions: tuple[StudyCondition, ...]
+    factors: tuple[Factor, ...]
+    tolerances: tuple[str, ...]
+    reading_rate: float | None
+    posttest: tuple[Path, ...]
+    coverage_threshold: float | None
+
+    def condition(self, name: str) -> StudyCondition:
+        return next(c for c in self.conditions if c.name == name)
+
+
+def _where(path: Path, key: str) -> str:
+    return f"{path}: [{key}]" if "." not in key else f"{path}: {key}"
+
+
+def _check_keys(path: Path, table: Mapping[str, Any], allowed: set[str], where: str) -> None:
+    for key in table:
+        if key not in allowed:
+            raise ConfigError(
+                f"{where}: unknown key {key!r}; allowed: {', '.join(sorted(allowed))}",
+                path=str(path),
+            )
+
+
+def _strings(path: Path, value: Any, where: str) -> tuple[str, ...]:
+    if isinstance(value, str):
+        return (value,)
+    if not isinstance(value, list) or not all(isinstance(v, str) for v in value) or not value:
+        raise ConfigError(
+            f"{where} must be a string or a non-empty list of strings", path=str(path)
+        )
+    return tuple(value)
+
+
+def load_study(path: Path) -> Study:
+    """Read and validate a study file; raises :class:`ConfigError` naming the key."""
+    from matcheck.compare.engine import expand_manipulated, known_dimensions
+    from matcheck.compare.tolerances import parse_tolerances
+    from matcheck.errors import UsageError
+
+    if not path.is_file():
+        raise ConfigError("no such study file", path=str(path))
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except UnicodeDecodeError:
+        raise ConfigError("the study file is not UTF-8 text", path=str(path)) from None
+    except tomllib.TOMLDecodeError as problem:
+        raise ConfigError(f"not valid TOML: {problem}", path=str(path)) from None
+    shown = str(path)
+    _check_keys(path, data, TOP_KEYS, "top level")
+    base = path.parent
+    study = data.get("study", {})
+    if not isinstance(study, dict):
+        raise ConfigError("[study] must be a table", path=shown)
+    _check_keys(path, study, STUDY_KEYS, "[study]")
+    title = study.get("title", path.stem)
+    if not isinstance(title, str):
+        raise ConfigError("study.title must be a string", path=shown)
+
+    factors = []
+    raw_factors = data.get("factors", {})
+    if not isinstance(raw_factors, dict):
+        raise ConfigError("[factors] must be a table of factors", path=shown)
+    for name, spec in raw_factors.items():
+        where = f"factors.{name}"
+        if not isinstance(spec, dict):
+            raise ConfigError(f"{where} must be a table", path=shown)
+        _check_keys(path, spec, FACTOR_KEYS, where)
+        if "levels" not in spec:
+            raise ConfigError(f"{where}.levels is missing", path=shown)
+        if "manipulates" not in spec:
+            raise ConfigError(f"{where}.manipulates is missing (a group or measure id)", path=shown)
+        levels = _strings(path, spec["levels"], f"{where}.levels")
+        if len(levels) < 2 or len(set(levels)) != len(levels):
+            raise ConfigError(f"{where}.levels needs two or more different levels", path=shown)
+        manipulates = _strings(path, spec["manipulates"], f"{where}.manipulates")
+        for item in manipulates:
+            try:
+                expand_manipulated([item])
+            except UsageError:
+                raise ConfigError(
+                    f"{where}.manipulates: {item!r} is neither a group nor a measure id "
+                    "(see `matcheck measures`)",
+                    path=shown,
+                ) from None
+        factors.append(Factor(name, levels, manipulates))
+
+    raw_conditions = data.get("conditions")
+    if not isinstance(raw_conditions, list) or len(raw_conditions) < 2:
+        raise ConfigError(
+            "[[conditions]] must list at least two conditions (each a [[conditions]] table)",
+            path=shown,
+        )
+    conditions = []
+    for index, spec in enumerate(raw_conditions, 1):
+        if not isinstance(spec, dict):
+            raise ConfigError(f"conditions #{index} must be a table", path=shown)
+        name = spec.get("name")
+        where = f"conditions.{name}" if isinstance(name, str) else f"conditions #{index}"
+        _check_keys(path, spec, CONDITION_KEYS, where)
+        if not isinstance(name, str) or not name:
+            raise ConfigError(f"{where}.name is missing", path=shown)
+        if "files" not in spec:
+            raise ConfigError(f"{where}.files is missing", path=shown)
+        files = tuple(base / f for f in _strings(path, spec["files"], f"{where}.files"))
+        for file in files:
+            if not file.exists():
+                raise ConfigError(f"{where}.files: {file} does not exist", path=shown)
+        levels = spec.get("levels", {})
+        if not isinstance(levels, dict) or not all(isinstance(v, str) for v in levels.values()):
+            raise ConfigError(f"{where}.levels must be a table of factor = level", path=shown)
+        for factor in factors:
+            if factor.name not in levels:
+                raise ConfigError(
+                    f"{where}.levels has no level for factor {factor.name!r}", path=shown
+                )
+            if levels[factor.name] not in factor.levels:
+                raise ConfigError(
+                    f"{where}.levels.{factor.name} = {levels[factor.name]!r} is not one of "
+                    f"{', '.join(factor.levels)}",
+                    path=shown,
+                )
+        for key in levels:
+            if key not in {f.name for f in factors}:
+                raise ConfigError(f"{where}.levels: unknown factor {key!r}", path=shown)
+        conditions.append(StudyCondition(name, files, dict(levels)))
+    names = [c.name for c in conditions]
+    if len(set(names)) != len(names):
+        raise ConfigError("conditions: two conditions have the same name", path=shown)
+    cells = [tuple(sorted(c.levels.items())) for c in conditions]
+    if factors and len(set(cells)) != len(cells):
+        raise ConfigError("conditions: two conditions have the same factor levels", path=shown)
+
+    reference = study.get("reference", names[0])
+    if reference not in names:
+        raise ConfigError(
+            f"study.reference = {reference!r} is not a condition ({', '.join(names)})", path=shown
+        )
+    rate = study.get("reading_rate")
+    if rate is not None and (not isinstance(rate, int | float) or not 20 <= rate <= 2000):
+        raise ConfigError("study.reading_rate must be words per minute, 20 to 2000", path=shown)
+
+    raw_tolerances = data.get("tolerances", {})
+    if not isinstance(raw_tolerances, dict):
+        raise ConfigError("[tolerances] must be a table of measure = value", path=shown)
+    overrides = []
+    for key, value in raw_tolerances.items():
+        if isinstance(value, bool) or not isinstance(value, int | float | str):
+            raise ConfigError(
+                f'tolerances.{key} must be a number or a percentage string like "3%"', path=shown
+            )
+        overrides.append(f"{key}={value}")
+    try:
+        parse_tolerances(overrides, known_dimensions())
+    except UsageError as problem:
+        raise ConfigError(
+            f"[tolerances]: {problem.message.replace('--tolerance ', '')}", path=shown
+        ) from None
+
+    posttest = data.get("posttest", {})
+    if not isinstance(posttest, dict):
+        raise ConfigError("[posttest] must be a table", path=shown)
+    _check_keys(path, posttest, POSTTEST_KEYS, "[posttest]")
+    post_files = (
+        tuple(base / f for f in _strings(path, posttest["files"], "posttest.files"))
+        if "files" in posttest
+        else ()
+    )
+    for file in post_files:
+        if not file.exists():
+            raise ConfigError(f"posttest.files: {file} does not exist", path=shown)
+    threshold = posttest.get("coverage_threshold")
+    if threshold is not None and (not isinstance(threshold, int | float) or not 0 < threshold <= 1):
+        raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
+
+    return Study(
+        path=path,
+        title=title,
+        reference=reference,
+        conditions=tuple(conditions),
+        factors=tuple(factors),
+        tolerances=tuple(overrides),
+        reading_rate=float(rate) if rate is not None else None,
+        posttest=post_files,
+        coverage_threshold=float(threshold) if threshold is not None else None,
+    )
+
+
+def comparisons(study: Study) -> tuple[Comparison, ...]:
+    """The pairs the design requires.
+
+    Without factors, or with one factor, every condition is compared with the reference and
+    may differ in what separates their levels. With several factors, every pair of
+    conditions that differs in the level of exactly one factor is compared, and may differ
+    only in what that factor manipulates: so each factor's contrast is checked at every level
+    of the others, and conditions that share a factor's level must match on what it
+    manipulates. Pairs that differ in two factors at once cannot isolate either and are not
+    compared directly.
+    """
+    if len(study.factors) <= 1:
+        factor = study.factors[0] if study.factors else None
+        pairs = []
+        for condition in study.conditions:
+            if condition.name == study.reference:
+                continue
+            manipulated: tuple[str, ...] = ()
+            if factor is not None:
+                ref_level = study.condition(study.reference).levels[factor.name]
+                if condition.levels[factor.name] != ref_level:
+                    manipulated = factor.manipulates
+            pairs.append(
+                Comparison(
+                    study.reference, condition.name, manipulated, factor.name if factor else None
+                )
+            )
+        return tuple(pairs)
+    order = {c.name: i for i, c in enumerate(study.conditions)}
+    ordered = sorted(study.conditions, key=lambda c: (c.name != study.reference, order[c.name]))
+    result = []
+    for i, first in enumerate(ordered):
+        for second in ordered[i + 1 :]:
+            differing = [f for f in study.factors if first.levels[f.name] != second.levels[f.name]]
+            if len(differing) == 1:
+                factor = differing[0]
+                result.append(Comparison(first.name, second.name, factor.manipulates, factor.name))
+    return tuple(result)
