@@ -10,7 +10,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from matcheck.errors import UsageError
-from matcheck.findings import Condition, Report
+from matcheck.findings import Condition, Finding, Report
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 from matcheck.measures.base import Profile
 from matcheck.model import Document
@@ -178,3 +178,77 @@ def check_study(
         title=study.title,
         warnings=warnings,
     )
+
+
+def check_against(
+    study_path: Path,
+    revision: str,
+    *,
+    limits: ReadLimits = DEFAULT_LIMITS,
+    extra_tolerances: Sequence[str] = (),
+) -> Report:
+    """Check a study now, and report what changed since ``revision`` and what it broke."""
+    import tempfile
+    from dataclasses import replace
+
+    from matcheck.findings import Status
+    from matcheck.revision import export_folder
+    from matcheck.study import load_study
+
+    study = load_study(study_path)
+    now = check_study(study, limits=limits, extra_tolerances=extra_tolerances)
+    with tempfile.TemporaryDirectory(prefix="matcheck-rev-") as folder:
+        old_study = load_study(export_folder(study_path, revision, Path(folder)))
+        before = check_study(old_study, limits=limits, extra_tolerances=extra_tolerances)
+        changes: list[Finding] = []
+        summaries: list[str] = []
+        old_conditions = {c.name: c for c in old_study.conditions}
+        for condition in study.conditions:
+            old = old_conditions.get(condition.name)
+            if old is None:
+                summaries.append(f"{condition.name} is new since {revision}")
+                continue
+            label = f"{condition.name}@{revision}"
+            delta = compare_versions(
+                [Version(label, old.files), Version(condition.name, condition.files)],
+                limits=limits,
+            )
+            changed = [f for f in delta.root_findings(Status.DIFFERS)]
+            changes.extend(delta.findings)
+            if changed:
+                summaries.append(
+                    f"{condition.name} changed since {revision}: "
+                    + ", ".join(_change_phrase(f) for f in changed)
+                )
+    held = {
+        (f.reference, f.condition, f.dimension)
+        for f in before.findings
+        if f.status in (Status.MATCHED, Status.INTENDED)
+    }
+    broken: dict[tuple[str, str], list[str]] = {}
+    for finding in now.root_findings(Status.DIFFERS):
+        if (finding.reference, finding.condition, finding.dimension) in held:
+            broken.setdefault((finding.condition, finding.reference), []).append(
+                f"{finding.group} ({finding.dimension})"
+            )
+    regressions = [
+        f"{condition} now differs from {reference} in {', '.join(dict.fromkeys(dims))}, "
+        f"which matched at {revision}"
+        for (condition, reference), dims in broken.items()
+    ]
+    return replace(
+        now,
+        revision=revision,
+        changes=tuple(changes),
+        regressions=(*summaries, *regressions),
+    )
+
+
+def _change_phrase(finding: Finding) -> str:
+    if finding.dimension.startswith("passages_") and finding.difference:
+        what = finding.dimension.removeprefix("passages_")
+        count = int(finding.difference)
+        return f"{count} passage{'s' if count != 1 else ''} {what}"
+    if finding.difference is not None:
+        return f"{finding.dimension} {finding.difference:+g}"
+    return finding.dimension

@@ -10,7 +10,7 @@ from __future__ import annotations
 import io
 import sys
 import traceback
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from enum import StrEnum
 from pathlib import Path
 from typing import TYPE_CHECKING, Annotated
@@ -28,6 +28,8 @@ from matcheck.errors import (
 )
 
 if TYPE_CHECKING:
+    from rich.console import Console
+
     from matcheck.findings import Report
 
 app = typer.Typer(
@@ -96,11 +98,11 @@ def profile(
     if format is ProfileFormat.json:
         from matcheck.report.profile import render_profiles_json
 
-        _emit(render_profiles_json(profiles), output, files)
+        emit(render_profiles_json(profiles), output, files)
     else:
         from matcheck.report.profile import render_profiles_table
 
-        _emit_rich(lambda console: render_profiles_table(profiles, console), output, files)
+        emit_rich(lambda console: render_profiles_table(profiles, console), output, files)
     return EXIT_MATCHED
 
 
@@ -144,45 +146,83 @@ def compare(
         tolerance_overrides=tolerance or (),
         settings=Settings(words_per_minute=wpm),
     )
-    _render_report(report, format, output, files)
+    render_report(report, format.value, output, files)
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
 
 
-def _render_report(
-    report: Report, format: CompareFormat, output: Path | None, inputs: Sequence[Path]
-) -> None:
-    if format is CompareFormat.json:
+def render_report(report: Report, format: str, output: Path | None, inputs: Sequence[Path]) -> None:
+    """Render a report in ``format`` to stdout or ``output``."""
+    if format == "json":
         from matcheck.report.json_report import render_json
 
-        _emit(render_json(report), output, inputs)
-    elif format is CompareFormat.markdown:
+        emit(render_json(report), output, inputs)
+    elif format == "markdown":
         from matcheck.report.markdown import render_markdown
 
-        _emit(render_markdown(report), output, inputs)
+        emit(render_markdown(report), output, inputs)
+    elif format == "github":
+        from matcheck.report.github import render_github
+
+        emit(render_github(report), output, inputs)
     else:
         from matcheck.report.table import render_table
 
-        _emit_rich(lambda console: render_table(report, console), output, inputs)
+        emit_rich(lambda console: render_table(report, console), output, inputs)
+
+
+class CheckFormat(StrEnum):
+    table = "table"
+    json = "json"
+    markdown = "markdown"
+    github = "github"
 
 
 @app.command()
 def check(
-    study: Annotated[Path, typer.Argument(help="A study file (TOML; see docs/study-file.md).")],
+    study: Annotated[
+        Path,
+        typer.Argument(help="A study file (TOML; docs/study-file.md), or a folder of them."),
+    ],
+    against: Annotated[
+        str | None,
+        typer.Option("--against", help="Also report what changed since this Git revision."),
+    ] = None,
     tolerance: Annotated[
         list[str] | None,
         typer.Option("--tolerance", "-t", help="Override the study's tolerance: MEASURE=VALUE."),
     ] = None,
-    format: Annotated[CompareFormat, typer.Option("--format", "-f")] = CompareFormat.table,
+    jobs: Annotated[
+        int | None,
+        typer.Option("--jobs", "-j", help="Studies checked at once (default: all cores)."),
+    ] = None,
+    format: Annotated[CheckFormat, typer.Option("--format", "-f")] = CheckFormat.table,
     output: Output = None,
 ) -> int:
-    """Check a study: compare its conditions as the design requires, and its post-test."""
-    from matcheck.api import check_study
+    """Check a study (or every study below a folder) as its design requires."""
     from matcheck.study import load_study
 
+    if study.is_dir():
+        from matcheck.batch import check_folder
+
+        return check_folder(
+            study,
+            jobs=jobs,
+            format=format.value,
+            output=output,
+            against=against,
+            tolerances=tolerance or (),
+        )
     loaded = load_study(study)
-    report = check_study(loaded, extra_tolerances=tolerance or ())
+    if against:
+        from matcheck.api import check_against
+
+        report = check_against(study, against, extra_tolerances=tolerance or ())
+    else:
+        from matcheck.api import check_study
+
+        report = check_study(loaded, extra_tolerances=tolerance or ())
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
-    _render_report(report, format, output, inputs)
+    render_report(report, format.value, output, inputs)
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
 
 
@@ -215,7 +255,7 @@ def measures() -> int:
     return EXIT_MATCHED
 
 
-def _emit(text: str, output: Path | None, inputs: Sequence[Path]) -> None:
+def emit(text: str, output: Path | None, inputs: Sequence[Path]) -> None:
     if output is None:
         sys.stdout.write(text)
         return
@@ -224,15 +264,17 @@ def _emit(text: str, output: Path | None, inputs: Sequence[Path]) -> None:
     write_output(output, text, inputs)
 
 
-def _emit_rich(render: object, output: Path | None, inputs: Sequence[Path]) -> None:
+def emit_rich(
+    render: Callable[[Console], None], output: Path | None, inputs: Sequence[Path]
+) -> None:
     from rich.console import Console
 
     if output is None:
-        render(Console())  # type: ignore[operator]
+        render(Console())
         return
     console = Console(record=True, width=140, file=io.StringIO(), color_system=None)
-    render(console)  # type: ignore[operator]
-    _emit(console.export_text(), output, inputs)
+    render(console)
+    emit(console.export_text(), output, inputs)
 
 
 def main(argv: Sequence[str] | None = None) -> int:

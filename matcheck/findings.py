@@ -150,6 +150,11 @@ class Report:
     pairings: tuple[Pairing, ...] = ()
     title: str = ""
     warnings: tuple[str, ...] = ()
+    # With --against REV: each condition compared with itself at REV (not counted in
+    # ``differs``), and the equivalences that held at REV and no longer do.
+    revision: str = ""
+    changes: tuple[Finding, ...] = ()
+    regressions: tuple[str, ...] = ()
 
     def pairs(self) -> tuple[Pairing, ...]:
         """The comparisons in order (every condition against the reference by default)."""

@@ -1,4 +1,4 @@
-"""Build the demo fixtures: one short lesson in three versions and three formats.
+"""Build the demo fixtures: one short lesson in five versions and three formats, and a post-test.
 
 The lesson is written once, below, as structured data (a list of block records). Inline emphasis
 is marked with ``**bold**`` and ``_italic_``; the marks must sit on word boundaries so that the
@@ -6,6 +6,9 @@ is marked with ``**bold**`` and ``_italic_``; the marks must sit on word boundar
 From that one source the script renders Markdown, DOCX (python-docx) and PDF (fpdf2) for each
 version, draws the three diagrams with Pillow, and writes ``expected.json`` with the counts
 known by construction, computed from the source data and never by reading the outputs back.
+Four of the versions form a 2x2 design (diagrams none/with x signaling emphasised/plain). The
+post-test (``POSTTEST``) is rendered as Markdown and CSV; which paragraph teaches each item is
+checked against the lesson data here, and recorded in ``expected.json``.
 
 Run from the repository root::
 
@@ -17,6 +20,7 @@ no randomness, so a rebuild with the same library versions gives the same bytes.
 
 from __future__ import annotations
 
+import csv
 import io
 import json
 import re
@@ -42,7 +46,7 @@ PDF_FOOTER = "Page {n}"
 # One fixed instant for every metadata date the libraries let us set.
 FIXED_DATE = datetime(2024, 1, 15, 9, 0, 0, tzinfo=UTC)
 ZIP_DATE = (2024, 1, 15, 9, 0, 0)
-SIZE_BUDGET = 400 * 1024
+SIZE_BUDGET = 500 * 1024  # the fixtures folder is kept under 500 KB
 
 Kind = Literal["heading", "paragraph", "bullets", "numbered", "table", "figure"]
 
@@ -283,7 +287,18 @@ LESSON: tuple[Block, ...] = (
     ),
 )
 
-VERSIONS = ("text-only", "diagrams", "diagrams-confounded")
+# The first three came first; tests rely on their files and counts, so their order and
+# content stay as they were. The "-plain" versions are their twins with every emphasis mark
+# removed (the signaling factor of the 2x2 design).
+VERSIONS = ("text-only", "diagrams", "diagrams-confounded", "text-plain", "diagrams-plain")
+PLAIN_TWIN = {"text-plain": "text-only", "diagrams-plain": "diagrams"}
+DESIGN_CELLS = {
+    # version: (diagrams level, signaling level)
+    "text-only": ("none", "bold key terms"),
+    "diagrams": ("with", "bold key terms"),
+    "text-plain": ("none", "plain"),
+    "diagrams-plain": ("with", "plain"),
+}
 
 # --- inline emphasis --------------------------------------------------------------------
 
@@ -360,8 +375,21 @@ def sentences(source: str) -> list[str]:
 # --- versions -------------------------------------------------------------------------
 
 
+def strip_emphasis(block: Block) -> Block:
+    """The same block with every bold and italic mark removed: same words, no emphasis."""
+    return replace(
+        block,
+        text=plain(block.text),
+        items=tuple(plain(item) for item in block.items),
+        rows=tuple(tuple(plain(cell) for cell in row) for row in block.rows),
+        split=plain(block.split),
+    )
+
+
 def version_blocks(version: str) -> list[Block]:
     """The block sequence of one version, derived from the single lesson source."""
+    if version in PLAIN_TWIN:
+        return [strip_emphasis(block) for block in version_blocks(PLAIN_TWIN[version])]
     blocks = list(LESSON)
     if version == "text-only":
         return [block for block in blocks if block.kind != "figure"]
@@ -494,6 +522,238 @@ def confound_details() -> dict[str, object]:
             "joining_words_added": sorted((after_words - before_words).elements()),
         },
     }
+
+
+# --- post-test ------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class Item:
+    """One post-test item.
+
+    ``section`` and ``opening`` name the body paragraph that teaches the item (its heading and
+    its first words); both empty for an item no version teaches. ``key_words`` are the content
+    words the item turns on: each must occur in the question or answer, and in the teaching
+    paragraph. For the item taught only by the removed paragraph, ``unique_words`` must occur
+    nowhere else in any version; for the untaught item, ``key_words`` must occur nowhere.
+    """
+
+    id: str
+    question: str
+    answer: str
+    key_words: tuple[str, ...]
+    section: str = ""
+    opening: str = ""
+    unique_words: tuple[str, ...] = ()
+
+
+POSTTEST: tuple[Item, ...] = (
+    Item(
+        "Q1",
+        "What is a snakebite puncture, and what causes it?",
+        "Two small cuts side by side in the tube, left when a hard knock against a kerb "
+        "squeezes the tube against the rim.",
+        ("snakebite", "cuts", "kerb", "knock"),
+        section=TITLE,
+        opening="Most flats are caused by",
+    ),
+    Item(
+        "Q2",
+        "Why should you check your repair kit before a long ride?",
+        "Because the glue in an opened tube dries out within a few months.",
+        ("kit", "glue", "opened", "dries", "months"),
+        section="Tools and Materials",
+        opening="You do not need a",
+    ),
+    Item(
+        "Q3",
+        "How can you let the air out of a Schrader valve quickly?",
+        "Press the spring-loaded pin in the middle of the valve with a fingernail.",
+        ("schrader", "spring-loaded", "pin", "fingernail"),
+        section="Know Your Valve",
+        opening="A Presta valve is thin",
+    ),
+    Item(
+        "Q4",
+        "How do you find a slow leak that you cannot hear?",
+        "Hold the tube under water a short section at a time and watch for a thin line of bubbles.",
+        ("slow", "leak", "water", "bubbles"),
+        section="Finding and Patching the Hole",
+        opening="Pump a little air into",
+    ),
+    Item(
+        "Q5",
+        "How does a vulcanising patch hold onto the tube?",
+        "The rubber cement reacts with the tube and the patch, so the two bond into a single "
+        "piece.",
+        ("vulcanising", "cement", "reacts", "bond", "single", "piece"),
+        section="Applying the Patch",
+        opening="A vulcanising patch does not",
+    ),
+    Item(
+        "Q6",
+        "Before you lever the tyre off, what do you do with its edges, and why does that help?",
+        "Squeeze both edges of the tyre towards the centre of the rim: the centre is deeper "
+        "than the sides, which gives you the slack to lift the tyre off.",
+        ("squeeze", "edges", "centre", "deeper", "slack"),
+        section="Removing the Tyre",
+        opening="Let out any air that",
+        unique_words=("deeper", "slack"),
+    ),
+    Item(
+        "Q7",
+        "What does the liquid sealant inside a tubeless tyre do when a thorn goes through it?",
+        "It flows into the hole and plugs it, so a small puncture stops leaking without a patch.",
+        ("liquid", "sealant", "tubeless", "plugs"),
+    ),
+)
+
+
+def folded(text: str) -> list[str]:
+    """Words case-folded with edge punctuation stripped: "Centre," and "centre" are one."""
+    return [w.lower().strip(",.;:!?()'\"") for w in words(text)]
+
+
+def word_counts_outside(version: str, paragraph: str = "") -> Counter[str]:
+    """Folded words of everything a reader of the version sees (body, captions, alt text),
+    leaving out the body paragraph whose plain text is ``paragraph``."""
+    counts: Counter[str] = Counter()
+    for block in version_blocks(version):
+        if block.kind == "paragraph" and paragraph and plain(block.text) == paragraph:
+            continue
+        texts = [text for _, text in text_sources([block])]
+        if block.kind == "figure":
+            texts += [FIGURES[block.figure].caption, FIGURES[block.figure].alt_text]
+        counts.update(w for text in texts for w in folded(text))
+    return counts
+
+
+def most_outside(key_words: Iterable[str], paragraph: str = "") -> dict[str, int]:
+    """For each word, the most times any one version shows it outside ``paragraph``."""
+    per_version = [word_counts_outside(v, paragraph) for v in VERSIONS]
+    return {w: max(counts[w] for counts in per_version) for w in key_words}
+
+
+def teaching_paragraph(item: Item) -> Block:
+    """The one body paragraph of the lesson that ``item`` names by section and opening."""
+    found = [
+        block
+        for block in LESSON
+        if block.kind == "paragraph"
+        and section_of(list(LESSON), block) == item.section
+        and plain(block.text).startswith(item.opening)
+    ]
+    if len(found) != 1:
+        raise ValueError(f"{item.id}: {len(found)} paragraphs match {item.opening!r}")
+    return found[0]
+
+
+def posttest_details() -> dict[str, object]:
+    """The post-test items with what teaches each, checked against the lesson data."""
+    ids = [item.id for item in POSTTEST]
+    if ids != [f"Q{n}" for n in range(1, len(POSTTEST) + 1)]:
+        raise ValueError(f"post-test ids must run Q1, Q2, ...: {ids}")
+    items: list[dict[str, object]] = []
+    for item in POSTTEST:
+        asked = set(folded(item.question)) | set(folded(item.answer))
+        for text in (item.question, item.answer):
+            text.encode("latin-1")  # same character set as the lesson
+        missing = [w for w in item.key_words if w not in asked]
+        if missing:
+            raise ValueError(f"{item.id}: key words not in question or answer: {missing}")
+        record: dict[str, object] = {
+            "id": item.id,
+            "question": item.question,
+            "answer": item.answer,
+            "key_words": list(item.key_words),
+        }
+        if not item.section:
+            # Untaught: none of its key words occurs in any version, captions included.
+            present = {w: n for w, n in most_outside(item.key_words).items() if n}
+            if present:
+                raise ValueError(f"{item.id} is meant to be untaught but the lesson has {present}")
+            record.update(taught=False, taught_by=None, taught_in_versions=[])
+            items.append(record)
+            continue
+        source = teaching_paragraph(item)
+        taught = Counter(folded(source.text))
+        absent = [w for w in item.key_words if not taught[w]]
+        if absent:
+            raise ValueError(f"{item.id}: key words not in its teaching paragraph: {absent}")
+        # A version teaches the item when its blocks hold the paragraph word for word (emphasis
+        # aside); the confounded version's split sentences would not count, so none is used.
+        versions = [
+            v
+            for v in VERSIONS
+            if any(
+                b.kind == "paragraph" and plain(b.text) == plain(source.text)
+                for b in version_blocks(v)
+            )
+        ]
+        elsewhere = most_outside(item.key_words, plain(source.text))
+        if source.tag == REMOVED_TAG:
+            if versions != [v for v in VERSIONS if v != "diagrams-confounded"]:
+                raise ValueError(f"{item.id}: the removed paragraph is in {versions}")
+            common = [w for w in item.unique_words if elsewhere[w]]
+            if not item.unique_words or common:
+                raise ValueError(f"{item.id}: unique words found elsewhere: {common}")
+        elif versions != list(VERSIONS):
+            raise ValueError(f"{item.id}: its paragraph is missing from some version")
+        record.update(
+            taught=True,
+            taught_by={
+                "section": item.section,
+                "first_words": item.opening,
+                "text": plain(source.text),
+                "paragraph_ordinal_in_diagrams": [
+                    block for block in LESSON if block.kind == "paragraph"
+                ].index(source)
+                + 1,
+            },
+            taught_in_versions=versions,
+            # Occurrences of each key word in the teaching paragraph, and the most in any one
+            # version outside it (body text, captions and alt text).
+            key_words_in_teaching_paragraph={w: taught[w] for w in item.key_words},
+            key_words_elsewhere=elsewhere,
+        )
+        if item.unique_words:
+            record["unique_words"] = list(item.unique_words)
+        items.append(record)
+    return {
+        "files": {"md": "posttest.md", "csv": "posttest.csv"},
+        "rules": {
+            "key_words": "case-folded, edge punctuation stripped, exact word forms "
+            '("squeeze" and "squeezes" are different words)',
+            "taught_in_versions": "versions that hold the teaching paragraph word for word, "
+            "emphasis aside",
+            "key_words_elsewhere": "the most times any one version shows the word outside the "
+            "teaching paragraph, counting body text, captions and alt text",
+        },
+        "items": items,
+        "untaught": [item.id for item in POSTTEST if not item.section],
+        "taught_only_by_removed_paragraph": [
+            item.id
+            for item in POSTTEST
+            if item.section and teaching_paragraph(item).tag == REMOVED_TAG
+        ],
+    }
+
+
+def render_posttest_markdown(items: Iterable[Item]) -> str:
+    # The answer is a second paragraph inside its list item (indented), so the list stays one.
+    chunks = ["# Post-test"]
+    for number, item in enumerate(items, 1):
+        indent = " " * len(f"{number}. ")
+        chunks.append(f"{number}. {item.question}\n\n{indent}Answer: {item.answer}")
+    return "\n\n".join(chunks) + "\n"
+
+
+def render_posttest_csv(items: Iterable[Item]) -> str:
+    buffer = io.StringIO()
+    writer = csv.writer(buffer)  # RFC 4180 style: CRLF line ends, quotes only where needed
+    writer.writerow(("id", "question", "answer"))
+    writer.writerows((item.id, item.question, item.answer) for item in items)
+    return buffer.getvalue()
 
 
 # --- diagrams -------------------------------------------------------------------------
@@ -864,6 +1124,12 @@ def check_source() -> None:
     diagrams, text_only = version_blocks("diagrams"), version_blocks("text-only")
     if text_sources(diagrams) != text_sources(text_only):
         raise ValueError("text-only and diagrams must have the same text")
+    for version, twin in PLAIN_TWIN.items():
+        mine, theirs = text_sources(version_blocks(version)), text_sources(version_blocks(twin))
+        if [(k, plain(t)) for k, t in theirs] != mine or any(
+            emphasised_words(t) != ([], []) for _, t in mine
+        ):
+            raise ValueError(f"{version} must be {twin}'s text with no emphasis")
 
 
 def main() -> int:
@@ -925,7 +1191,34 @@ def main() -> int:
     versions["diagrams-confounded"]["differs_from_diagrams"] = (
         "one paragraph removed and one section's sentences split"
     )
+    for version, twin in PLAIN_TWIN.items():
+        versions[version][f"differs_from_{twin.replace('-', '_')}"] = (
+            "every bold and italic mark removed, nothing else"
+        )
     expected["versions"] = versions
+    expected["design"] = {
+        "factors": {
+            "diagrams": {
+                "none": "no figures, no captions",
+                "with": "the 3 figures with captions and alt text",
+            },
+            "signaling": {
+                "bold key terms": "key terms emphasised as in the source: "
+                f"{versions['text-only']['bold_words']} bold and "
+                f"{versions['text-only']['italic_words']} italic words",
+                "plain": "the same words with no bold or italic",
+            },
+        },
+        "cells": [
+            {"version": version, "diagrams": diagrams, "signaling": signaling}
+            for version, (diagrams, signaling) in DESIGN_CELLS.items()
+        ],
+        "not_in_design": [v for v in VERSIONS if v not in DESIGN_CELLS],
+    }
+    expected["posttest"] = posttest_details()
+    (OUT / "posttest.md").write_text(render_posttest_markdown(POSTTEST), encoding="utf-8")
+    with (OUT / "posttest.csv").open("w", encoding="utf-8", newline="") as handle:
+        handle.write(render_posttest_csv(POSTTEST))
     (OUT / "expected.json").write_text(
         json.dumps(expected, indent=2, ensure_ascii=False) + "\n", encoding="utf-8"
     )

@@ -113,7 +113,7 @@ def test_profile_and_compare_offline(fmt: str, offline_results: dict[str, dict[s
         assert "Traceback" not in run["err"]
     assert profile["status"] == 0, profile["err"]
     documents = json.loads(profile["out"])["documents"]
-    assert len(documents) == 3
+    assert len(documents) == len(files)
     for document, version in zip(documents, files, strict=True):
         words = next(m["value"] for m in document["measures"] if m["dimension"] == "words")
         # Within 1% of the counts known by construction (exact for md and docx elsewhere).

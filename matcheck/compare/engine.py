@@ -12,7 +12,7 @@ from collections.abc import Iterable, Mapping, Sequence
 
 from matcheck.compare import causes
 from matcheck.compare.content import PairContent, build_model, compare_content
-from matcheck.compare.verdicts import decide, decide_mean
+from matcheck.compare.verdicts import decide, decide_mean, decide_sections
 from matcheck.errors import UsageError
 from matcheck.findings import Finding, Spread, Status, Tolerance
 from matcheck.measures import CATALOGUE
@@ -145,6 +145,10 @@ def _measure_findings(
             )
         elif ref_m and other_m and ref_m.sample and other_m.sample:
             status, reason, test = decide_mean(ref_m.sample, other_m.sample, tolerance)
+            if status is not Status.DIFFERS:
+                local = decide_sections(ref_m, other_m, tolerance)
+                if local is not None:
+                    status, reason, test = local
         else:
             status, reason = decide(a, b, tolerance, intended=False)
         yield Finding(

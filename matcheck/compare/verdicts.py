@@ -17,6 +17,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from matcheck.findings import StatTest, Status, Tolerance
+from matcheck.measures.base import Measurement
 
 ALPHA = 0.05
 
@@ -77,3 +78,60 @@ def decide_mean(
         "a difference; read the passages",
         test,
     )
+
+
+MIN_SECTION_SENTENCES = 3
+
+
+def decide_sections(
+    reference: Measurement, other: Measurement, tolerance: Tolerance
+) -> tuple[Status, str, StatTest] | None:
+    """A mean that matches over the whole lesson can hide one section rewritten: check each
+    section that both versions have (same heading) and at least three sentences in each.
+
+    A section differs when its mean moved beyond the tolerance and a Welch t-test shows it
+    at α = .05 divided by the number of sections tested (Bonferroni), so that testing many
+    sections does not raise false alarms. Returns the largest such shift, or ``None``.
+    """
+    from scipy import stats
+
+    def by_section(measurement: Measurement) -> dict[str, list[float]]:
+        groups: dict[str, list[float]] = {}
+        for value, section in zip(measurement.sample, measurement.sample_sections, strict=False):
+            groups.setdefault(section, []).append(value)
+        return groups
+
+    a, b = by_section(reference), by_section(other)
+    shared = [
+        s
+        for s in a
+        if s in b and len(a[s]) >= MIN_SECTION_SENTENCES and len(b[s]) >= MIN_SECTION_SENTENCES
+    ]
+    if not shared:
+        return None
+    alpha = ALPHA / len(shared)
+    worst: tuple[float, str, float, float, float] | None = None
+    for section in shared:
+        mean_a = sum(a[section]) / len(a[section])
+        mean_b = sum(b[section]) / len(b[section])
+        if abs(mean_b - mean_a) <= tolerance.allowed(mean_a):
+            continue
+        if sorted(a[section]) == sorted(b[section]):
+            continue
+        p_value = float(stats.ttest_ind(b[section], a[section], equal_var=False).pvalue)
+        if p_value < alpha and (worst is None or abs(mean_b - mean_a) > worst[0]):
+            worst = (abs(mean_b - mean_a), section, mean_a, mean_b, p_value)
+    if worst is None:
+        return None
+    _, section, mean_a, mean_b, p_value = worst
+    name = section or "the text before the first heading"
+    test = StatTest(
+        "Welch t-test per section (Bonferroni)",
+        p_value,
+        f"§ {name}: {mean_a:.1f} → {mean_b:.1f}; α = {alpha:.3g}",
+    )
+    reason = (
+        f"beyond tolerance in § {name} ({mean_a:.1f} → {mean_b:.1f} per sentence), "
+        "though the whole-lesson mean is closer: a possible confound"
+    )
+    return Status.DIFFERS, reason, test

@@ -47,6 +47,8 @@ class Measurement:
     value: float | None
     items: tuple[tuple[str, float], ...] = field(default=())
     sample: tuple[float, ...] = field(default=())
+    # The section heading of each unit of ``sample`` (same length), for local comparisons.
+    sample_sections: tuple[str, ...] = field(default=())
     note: str = ""
 
     @property

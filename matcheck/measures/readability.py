@@ -10,7 +10,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from matcheck.language.analysis import Analysis
+from matcheck.language.analysis import PROSE_KINDS, Analysis
 from matcheck.measures import formulas
 from matcheck.measures.base import Group, Measurement, MeasureSpec
 from matcheck.settings import Settings
@@ -116,7 +116,18 @@ def measure_readability(analysis: Analysis, settings: Settings) -> Iterator[Meas
             words, sentences, counts.unfamiliar_words, adjustment=settings.dale_chall_adjustment
         ),
     )
-    yield Measurement(WPS, words / sentences, sample=tuple(map(float, counts.sentence_lengths)))
+    sections = tuple(
+        item.block.location.section or ""
+        for item in analysis.of(PROSE_KINDS)
+        for sentence in item.sentences
+        if sentence.word_count
+    )
+    yield Measurement(
+        WPS,
+        words / sentences,
+        sample=tuple(map(float, counts.sentence_lengths)),
+        sample_sections=sections,
+    )
     yield Measurement(SPW, counts.syllables / words)
     yield Measurement(LONG, counts.long_words / words)
     yield Measurement(RARE, counts.unfamiliar_words / words)

@@ -117,6 +117,9 @@ def report_dict(report: Report) -> dict[str, Any]:
             for s in report.spreads
         ],
         "warnings": list(report.warnings),
+        "revision": report.revision or None,
+        "changes": [finding_dict(f) for f in sorted_findings(report.changes)],
+        "regressions": list(report.regressions),
         "notes": list(report.notes),
     }
 

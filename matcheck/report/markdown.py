@@ -88,6 +88,12 @@ def render_markdown(report: Report) -> str:
             lines.append("")
             lines += [f"- {_cell(describe_evidence(item))}" for item in finding.evidence]
             lines += ["", "</details>", ""]
+    if report.revision:
+        lines += [f"### Since `{report.revision}`", ""]
+        lines += [f"- {_cell(line)}" for line in report.regressions] or [
+            f"Nothing changed beyond tolerance since `{report.revision}`."
+        ]
+        lines.append("")
     for warning in report.warnings:
         lines.append(f"> ⚠️ {warning}")
     for condition in report.conditions:

@@ -123,6 +123,8 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
             )
     if report.spreads:
         _render_spread(report, console)
+    if report.revision:
+        _render_changes(report, console)
     counts = summary_counts(report)
     verdict = (
         "[bold red]possible confounds found[/]"
@@ -159,3 +161,30 @@ def _render_spread(report: Report, console: Console) -> None:
     if table.row_count:
         console.print(table)
         console.print()
+
+
+def _render_changes(report: Report, console: Console) -> None:
+    from rich import box
+    from rich.table import Table
+
+    console.print(f"[bold]Since {report.revision}[/bold]")
+    if not report.regressions:
+        console.print(f"  nothing changed beyond tolerance since {report.revision}")
+    for line in report.regressions:
+        console.print(f"  • {line}", highlight=False, markup=False)
+    changed = [f for f in report.changes if f.status is not Status.MATCHED and f.caused_by is None]
+    if not changed:
+        console.print()
+        return
+    table = Table(box=box.SIMPLE_HEAD, header_style="bold", padding=(0, 1, 0, 0))
+    for column in ("Version", "Measure", "Then", "Now", "Diff."):
+        table.add_column(column, no_wrap=True)
+    for finding in changed:
+        table.add_row(
+            finding.condition,
+            finding.dimension,
+            format_value(finding.values.get(finding.reference), finding.unit, finding.dimension),
+            format_value(finding.values.get(finding.condition), finding.unit, finding.dimension),
+            format_difference(finding, short=True),
+        )
+    console.print(table)

@@ -1,0 +1,86 @@
+"""GitHub Actions output: workflow-command annotations, and a Markdown step summary.
+
+Each root finding that differs becomes an ``::error`` annotation on the condition's file
+(with the line where the evidence is located, for Markdown and text); inconclusive findings,
+warnings and regressions since a revision become ``::warning``. The format of workflow
+commands, and the escaping of ``%``, CR, LF (and, in properties, ``:`` and ``,``), follow
+GitHub's documentation of workflow commands.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+from matcheck.findings import Evidence, Finding, Report, Status
+from matcheck.report.common import describe_evidence, format_difference, format_tolerance
+
+
+def _data(text: str) -> str:
+    return text.replace("%", "%25").replace("\r", "%0D").replace("\n", "%0A")
+
+
+def _property(text: str) -> str:
+    return _data(text).replace(":", "%3A").replace(",", "%2C")
+
+
+def _relative(path: str) -> str:
+    try:
+        return Path(path).resolve().relative_to(Path.cwd().resolve()).as_posix()
+    except ValueError:
+        return path
+
+
+def _files(report: Report) -> dict[str, str]:
+    return {c.name: c.paths[0] for c in report.conditions if c.paths}
+
+
+def _place(
+    finding: Finding, files: dict[str, str]
+) -> tuple[str | None, int | None, Evidence | None]:
+    for item in finding.evidence:
+        path = files.get(item.condition)
+        if path:
+            line = item.location.line if item.location else None
+            return path, line, item
+    return files.get(finding.condition), None, None
+
+
+def _command(kind: str, message: str, path: str | None, line: int | None, title: str) -> str:
+    props = []
+    if path:
+        props.append(f"file={_property(_relative(path))}")
+    if line:
+        props.append(f"line={line}")
+    props.append(f"title={_property(title)}")
+    return f"::{kind} {','.join(props)}::{_data(message)}"
+
+
+def render_github(report: Report) -> str:
+    files = _files(report)
+    lines = []
+    for finding in report.findings:
+        if finding.caused_by is not None or finding.status not in (
+            Status.DIFFERS,
+            Status.INCONCLUSIVE,
+        ):
+            continue
+        path, line, evidence = _place(finding, files)
+        message = (
+            f"{finding.condition} vs {finding.reference}: {finding.dimension} "
+            f"{finding.status.value} ({format_difference(finding)}; tolerance "
+            f"{format_tolerance(finding)})"
+        )
+        if evidence is not None:
+            message += f"\n{describe_evidence(evidence)}"
+        kind = "error" if finding.status is Status.DIFFERS else "warning"
+        lines.append(_command(kind, message, path, line, f"matcheck: {finding.group}"))
+    for text in (*report.warnings, *report.regressions):
+        lines.append(_command("warning", text, None, None, "matcheck"))
+    summary = os.environ.get("GITHUB_STEP_SUMMARY")
+    if summary:
+        from matcheck.report.markdown import render_markdown
+
+        with open(summary, "a", encoding="utf-8") as stream:
+            stream.write(render_markdown(report) + "\n")
+    return "\n".join(lines) + ("\n" if lines else "")
