@@ -1,0 +1,249 @@
+"""Post-test coverage: does each condition teach what each post-test item asks for?
+
+An item needs its *terms*: the content lemmas of its question and answer, by the same rules
+as the lesson text (:mod:`matcheck.language.analysis`: alphabetic words of two letters or more,
+spaCy stop words left out). Each term is weighted by its smoothed inverse document frequency
+over the passages of all conditions together, as scikit-learn's ``TfidfVectorizer`` computes it
+by default (``smooth_idf=True``)::
+
+    idf(t) = ln((1 + n) / (1 + df(t))) + 1
+
+with ``n`` passages in all and ``df(t)`` of them holding ``t``, so that a word the whole lesson
+uses (``tyre`` in a lesson on tyres) weighs less than the distinctive words an item needs.
+Terms of the answer count double (whether or not the question has them too): the answer is
+what the lesson must teach, while the question's words often only name the topic, which a
+lesson can mention without teaching it. This is a judgment call.
+
+A condition's coverage of an item is the best, over every window of one passage or two
+adjacent passages, of the weight of the item's distinct terms the window holds over the
+weight of all of them (two passages, because an explanation may run over a paragraph break).
+The item is *taught* when its coverage reaches the threshold, :data:`DEFAULT_COVERAGE` unless
+the study sets another: a judgment call (common practice for keyword matching, not a
+published value), meaning most of what the item needs, weighted, is said in one place.
+
+For every compared pair, an item taught in exactly one of the two conditions differs; the
+evidence locates the covering passage in the one (``item_taught``) and, in the other, the
+best partial window with the terms it lacks (``item_not_taught``). Evidence ``weight`` is the
+window's coverage. An item taught in no condition is a warning: the test asks for what no
+version teaches.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import Counter
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
+
+from matcheck.compare.content import excerpt
+from matcheck.errors import ConfigError
+from matcheck.findings import Evidence, Finding, Status, Tolerance
+from matcheck.language.analysis import Analysis
+from matcheck.measures.key_terms import Passage, passages
+from matcheck.model import BlockKind, Location
+from matcheck.readers.posttest import PostTestItem
+
+DEFAULT_COVERAGE = 0.6
+# Answer terms weigh this many times a question-only term (judgment call, see above).
+ANSWER_FACTOR = 2.0
+GROUP = "assessment"
+TOLERANCE = Tolerance(
+    absolute=0, reason="an item taught in one condition must be taught in the other"
+)
+# Words of the question shown in a warning.
+QUESTION_EXCERPT_WORDS = 12
+
+
+@dataclass(frozen=True, slots=True)
+class ItemTerms:
+    """The distinct terms one item needs and the factor each counts with."""
+
+    item: PostTestItem
+    factors: dict[str, float]
+
+
+@dataclass(frozen=True, slots=True)
+class Coverage:
+    """One condition's best window for one item."""
+
+    share: float
+    present: frozenset[str]
+    passage: Passage | None
+
+    @property
+    def location(self) -> Location | None:
+        return None if self.passage is None else self.passage.location
+
+
+def smoothed_idf(n_documents: int, document_frequency: int) -> float:
+    """scikit-learn's default idf: ``ln((1 + n) / (1 + df)) + 1``."""
+    return math.log((1 + n_documents) / (1 + document_frequency)) + 1.0
+
+
+def item_terms(items: Sequence[PostTestItem]) -> list[ItemTerms]:
+    """Each item's content lemmas, from the same pipeline as the lessons' text."""
+    from matcheck.language.analysis import analyze
+    from matcheck.readers.builder import DocumentBuilder
+
+    # One throwaway document, two blocks per item, so the text is normalised and tokenised
+    # exactly as lesson text is.
+    builder = DocumentBuilder("post-test", "text")
+    slots: list[tuple[int | None, int | None]] = []
+    for item in items:
+        question = builder.add_block(BlockKind.PARAGRAPH, item.question)
+        answer = builder.add_block(BlockKind.PARAGRAPH, item.answer)
+        slots.append(
+            (
+                None if question is None else question.location.block,
+                None if answer is None else answer.location.block,
+            )
+        )
+    analysis = analyze(builder.build())
+    result = []
+    for item, (question_at, answer_at) in zip(items, slots, strict=True):
+        factors: dict[str, float] = {}
+        if question_at is not None:
+            factors.update(dict.fromkeys(analysis.blocks[question_at].terms, 1.0))
+        if answer_at is not None:
+            factors.update(dict.fromkeys(analysis.blocks[answer_at].terms, ANSWER_FACTOR))
+        result.append(ItemTerms(item, factors))
+    return result
+
+
+def unigrams(passage: Passage) -> frozenset[str]:
+    """A passage's content lemmas (its bigrams left out: an item needs words, not phrases)."""
+    return frozenset(term for term in passage.terms if " " not in term)
+
+
+def coverage(terms: ItemTerms, units: Sequence[Passage], weights: Mapping[str, float]) -> Coverage:
+    """The best window of one or two adjacent passages for ``terms`` (first best wins)."""
+    needed = {term: weights[term] * factor for term, factor in terms.factors.items()}
+    total = sum(needed.values())
+    best = Coverage(0.0, frozenset(), None)
+    sets = [unigrams(unit) & needed.keys() for unit in units]
+    windows = [(i,) for i in range(len(units))] + [(i, i + 1) for i in range(len(units) - 1)]
+    # Reading order, single passages before pairs at the same start, for a stable choice.
+    windows.sort()
+    for window in windows:
+        present = frozenset().union(*(sets[i] for i in window))
+        share = sum(needed[term] for term in present) / total if total else 0.0
+        if share > best.share:
+            # Point at the passage of the window that holds most of the weight.
+            main = max(window, key=lambda i: (sum(needed[t] for t in sets[i]), -i))
+            best = Coverage(share, present, units[main])
+    return best
+
+
+def assess_posttest(
+    items: Sequence[PostTestItem],
+    analyses: Mapping[str, Analysis],
+    pairs: Sequence[tuple[str, str]],
+    *,
+    threshold: float | None = None,
+) -> tuple[tuple[Finding, ...], tuple[str, ...]]:
+    """Findings (group ``assessment``) for every item and pair, and the study's warnings."""
+    limit = DEFAULT_COVERAGE if threshold is None else threshold
+    if not 0 < limit <= 1:
+        raise ConfigError(f"the post-test coverage threshold must be in (0, 1], not {limit:g}")
+    units = {name: passages(analysis) for name, analysis in analyses.items()}
+    every = [unigrams(unit) for name in units for unit in units[name]]
+    frequency = Counter(term for terms in every for term in terms)
+    needed = item_terms(items)
+    warnings: list[str] = []
+    covered: dict[tuple[str, str], Coverage] = {}
+    assessed: list[ItemTerms] = []
+    weighted: dict[str, dict[str, float]] = {}
+    _check_ids(items)
+    for terms in needed:
+        item = terms.item
+        if not terms.factors:
+            warnings.append(
+                f"post-test item {item.id} ({excerpt(item.question, QUESTION_EXCERPT_WORDS)}) "
+                "has no content words to look for in the lessons"
+            )
+            continue
+        weights = {t: smoothed_idf(len(every), frequency[t]) for t in terms.factors}
+        weighted[item.id] = {t: weights[t] * f for t, f in terms.factors.items()}
+        for name in units:
+            covered[item.id, name] = coverage(terms, units[name], weights)
+        assessed.append(terms)
+        if not any(covered[item.id, name].share >= limit for name in units):
+            warnings.append(
+                f"post-test item {item.id} ({excerpt(item.question, QUESTION_EXCERPT_WORDS)}) "
+                "is taught in no condition: the test asks for what no version teaches"
+            )
+    findings = [
+        _finding(terms, reference, condition, covered, weighted[terms.item.id], limit)
+        for reference, condition in pairs
+        for terms in assessed
+    ]
+    return tuple(findings), tuple(warnings)
+
+
+def _check_ids(items: Sequence[PostTestItem]) -> None:
+    """Item ids name findings, so two files of one study must not share one."""
+    sources: dict[str, str] = {}
+    for item in items:
+        if item.id in sources:
+            raise ConfigError(
+                f"post-test item id {item.id!r} is used twice ({sources[item.id]} and "
+                f"{item.source}); give each item of the study its own id"
+            )
+        sources[item.id] = item.source
+
+
+def _finding(
+    terms: ItemTerms,
+    reference: str,
+    condition: str,
+    covered: Mapping[tuple[str, str], Coverage],
+    weights: Mapping[str, float],
+    limit: float,
+) -> Finding:
+    item = terms.item
+    ref, cond = covered[item.id, reference], covered[item.id, condition]
+    taught = {reference: ref.share >= limit, condition: cond.share >= limit}
+    evidence: tuple[Evidence, ...] = ()
+    if taught[reference] != taught[condition]:
+        status = Status.DIFFERS
+        yes, no = (reference, condition) if taught[reference] else (condition, reference)
+        reason = f"{item.id} is taught in {yes} but not in {no}"
+        good, weak = covered[item.id, yes], covered[item.id, no]
+        # Heaviest first: the distinctive words the weak condition lacks.
+        missing = sorted(terms.factors.keys() - weak.present, key=lambda t: (-weights[t], t))
+        assert good.passage is not None  # taught means some window holds terms
+        evidence = (
+            Evidence(
+                kind="item_taught",
+                condition=yes,
+                text=excerpt(good.passage.text),
+                location=good.location,
+                weight=good.share,
+                counterpart=weak.location,
+            ),
+            Evidence(
+                kind="item_not_taught",
+                condition=no,
+                text=item.question,
+                location=weak.location,
+                weight=weak.share,
+                counterpart=good.location,
+                counterpart_text=f"missing: {', '.join(missing)}",
+            ),
+        )
+    else:
+        status = Status.MATCHED
+        reason = "taught in both" if taught[reference] else "taught in neither"
+    return Finding(
+        dimension=f"item:{item.id}",
+        group=GROUP,
+        unit="share",
+        reference=reference,
+        condition=condition,
+        status=status,
+        values={reference: ref.share, condition: cond.share},
+        difference=cond.share - ref.share,
+        tolerance=TOLERANCE,
+        reason=reason,
+        evidence=evidence,
+    )
