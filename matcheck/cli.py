@@ -150,7 +150,14 @@ def compare(
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
 
 
-def render_report(report: Report, format: str, output: Path | None, inputs: Sequence[Path]) -> None:
+def render_report(
+    report: Report,
+    format: str,
+    output: Path | None,
+    inputs: Sequence[Path],
+    *,
+    show_matched: bool = True,
+) -> None:
     """Render a report in ``format`` to stdout or ``output``."""
     if format == "json":
         from matcheck.report.json_report import render_json
@@ -167,7 +174,11 @@ def render_report(report: Report, format: str, output: Path | None, inputs: Sequ
     else:
         from matcheck.report.table import render_table
 
-        emit_rich(lambda console: render_table(report, console), output, inputs)
+        emit_rich(
+            lambda console: render_table(report, console, show_matched=show_matched),
+            output,
+            inputs,
+        )
 
 
 class CheckFormat(StrEnum):
@@ -197,6 +208,9 @@ def check(
     ] = None,
     format: Annotated[CheckFormat, typer.Option("--format", "-f")] = CheckFormat.table,
     output: Output = None,
+    all_rows: Annotated[
+        bool, typer.Option("--all", help="List matched measures too in the table.")
+    ] = False,
 ) -> int:
     """Check a study (or every study below a folder) as its design requires."""
     from matcheck.study import load_study
@@ -222,7 +236,7 @@ def check(
 
         report = check_study(loaded, extra_tolerances=tolerance or ())
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
-    render_report(report, format.value, output, inputs)
+    render_report(report, format.value, output, inputs, show_matched=all_rows)
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
 
 

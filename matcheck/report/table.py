@@ -89,6 +89,9 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
                 style=STYLES[finding.status] if finding.status is not Status.MATCHED else None,
             )
         console.print(table)
+        if not show_matched:
+            hidden = sum(1 for f in findings if f.status is Status.MATCHED)
+            console.print(f"[dim]{hidden} matched measures not listed (--all lists them)[/dim]")
         located = [
             f
             for f in sorted_findings(findings)
