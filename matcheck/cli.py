@@ -240,6 +240,45 @@ def check(
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
 
 
+class TableFormat(StrEnum):
+    markdown = "markdown"
+    csv = "csv"
+    latex = "latex"
+    docx = "docx"
+    text = "text"
+
+
+@app.command()
+def table(
+    study: Annotated[Path, typer.Argument(help="A study file (TOML; docs/study-file.md).")],
+    format: Annotated[TableFormat, typer.Option("--format", "-f")] = TableFormat.markdown,
+    output: Output = None,
+) -> int:
+    """Write the equivalence table for the methods section (one column per condition)."""
+    from matcheck.api import check_study
+    from matcheck.report import methods_table as tables
+    from matcheck.study import load_study
+
+    if format is TableFormat.docx and output is None:
+        raise UsageError("--format docx writes a Word file: give it with --output FILE.docx")
+    loaded = load_study(study)
+    report = check_study(loaded)
+    built = tables.methods_table(report, coverage_threshold=loaded.coverage_threshold)
+    inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
+    if format is TableFormat.docx:
+        assert output is not None
+        tables.write_docx(built, output, inputs=inputs)
+        return EXIT_MATCHED
+    render = {
+        TableFormat.markdown: tables.render_markdown,
+        TableFormat.csv: tables.render_csv,
+        TableFormat.latex: tables.render_latex,
+        TableFormat.text: tables.render_text,
+    }[format]
+    emit(render(built), output, inputs)
+    return EXIT_MATCHED
+
+
 @app.command()
 def measures() -> int:
     """List every measure with its id, group, unit and default tolerance."""

@@ -199,3 +199,26 @@ def test_bad_study_file_exits_2_with_one_line(
     assert main(["check", str(path)]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and err[0].startswith("matcheck: error:") and "study.toml" in err[0]
+
+
+def test_table_command_formats(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    import csv
+    import io
+
+    path = _write_2x2(tmp_path)
+    assert main(["table", str(path), "--format", "csv"]) == 0
+    rows = list(csv.reader(io.StringIO(capsys.readouterr().out)))
+    assert rows[0][2:6] == ["text-bold", "diagrams-bold", "text-plain", "diagrams-plain"]
+    assert main(["table", str(path), "--format", "docx"]) == 2  # a Word file needs --output
+    assert "--output" in capsys.readouterr().err
+    target = tmp_path / "table1.docx"
+    assert main(["table", str(path), "--format", "docx", "--output", str(target)]) == 0
+    from docx import Document
+
+    cells = Document(str(target)).tables[0].rows[0].cells
+    assert [c.text for c in cells][1:5] == [
+        "text-bold",
+        "diagrams-bold",
+        "text-plain",
+        "diagrams-plain",
+    ]
