@@ -30,6 +30,7 @@ from matcheck.errors import (
 if TYPE_CHECKING:
     from rich.console import Console
 
+    from matcheck.limits import ReadLimits
     from matcheck.findings import Report
 
 app = typer.Typer(
@@ -78,6 +79,13 @@ Wpm = Annotated[
     float,
     typer.Option("--wpm", help="Reading rate for reading time (default: Brysbaert 2019, 238)."),
 ]
+AllowOutside = Annotated[
+    bool,
+    typer.Option(
+        "--allow-outside",
+        help="Read Markdown images outside the lesson's folder (off: counted, not opened).",
+    ),
+]
 Output = Annotated[
     Path | None, typer.Option("--output", "-o", help="Write the report to this file.")
 ]
@@ -89,12 +97,13 @@ def profile(
     format: Annotated[ProfileFormat, typer.Option("--format", "-f")] = ProfileFormat.table,
     wpm: Wpm = 238.0,
     output: Output = None,
+    allow_outside: AllowOutside = False,
 ) -> int:
     """Measure each lesson file on every dimension."""
     from matcheck.api import profile_files
     from matcheck.settings import Settings
 
-    profiles = profile_files(files, Settings(words_per_minute=wpm))
+    profiles = profile_files(files, Settings(words_per_minute=wpm), _limits(allow_outside))
     if format is ProfileFormat.json:
         from matcheck.report.profile import render_profiles_json
 
@@ -131,6 +140,7 @@ def compare(
     wpm: Wpm = 238.0,
     format: Annotated[CompareFormat, typer.Option("--format", "-f")] = CompareFormat.table,
     output: Output = None,
+    allow_outside: AllowOutside = False,
 ) -> int:
     """Compare lesson versions; report every difference beyond the declared manipulation."""
     from matcheck.api import Version, compare_versions, version_names
@@ -145,6 +155,7 @@ def compare(
         manipulated=manipulated or (),
         tolerance_overrides=tolerance or (),
         settings=Settings(words_per_minute=wpm),
+        limits=_limits(allow_outside),
     )
     render_report(report, format.value, output, files)
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
@@ -211,6 +222,7 @@ def check(
     all_rows: Annotated[
         bool, typer.Option("--all", help="List matched measures too in the table.")
     ] = False,
+    allow_outside: AllowOutside = False,
 ) -> int:
     """Check a study (or every study below a folder) as its design requires."""
     from matcheck.study import load_study
@@ -230,11 +242,15 @@ def check(
     if against:
         from matcheck.api import check_against
 
-        report = check_against(study, against, extra_tolerances=tolerance or ())
+        report = check_against(
+            study, against, extra_tolerances=tolerance or (), limits=_limits(allow_outside)
+        )
     else:
         from matcheck.api import check_study
 
-        report = check_study(loaded, extra_tolerances=tolerance or ())
+        report = check_study(
+            loaded, extra_tolerances=tolerance or (), limits=_limits(allow_outside)
+        )
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
     render_report(report, format.value, output, inputs, show_matched=all_rows)
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
@@ -306,6 +322,16 @@ def measures() -> int:
         table.add_row(dimension, "content", unit, tol.describe(unit), tol.reason)
     Console().print(table)
     return EXIT_MATCHED
+
+
+def _limits(allow_outside: bool) -> ReadLimits:
+    from matcheck.limits import DEFAULT_LIMITS
+
+    if not allow_outside:
+        return DEFAULT_LIMITS
+    from dataclasses import replace
+
+    return replace(DEFAULT_LIMITS, allow_outside_files=True)
 
 
 def emit(text: str, output: Path | None, inputs: Sequence[Path]) -> None:
