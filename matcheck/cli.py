@@ -30,8 +30,8 @@ from matcheck.errors import (
 if TYPE_CHECKING:
     from rich.console import Console
 
-    from matcheck.limits import ReadLimits
     from matcheck.findings import Report
+    from matcheck.limits import ReadLimits
 
 app = typer.Typer(
     name="matcheck",
@@ -79,6 +79,13 @@ Wpm = Annotated[
     float,
     typer.Option("--wpm", help="Reading rate for reading time (default: Brysbaert 2019, 238)."),
 ]
+Limits = Annotated[
+    list[str] | None,
+    typer.Option(
+        "--limit",
+        help="Change a resource limit: NAME=VALUE, e.g. max_words=2000000 (docs/limits.md).",
+    ),
+]
 AllowOutside = Annotated[
     bool,
     typer.Option(
@@ -98,12 +105,13 @@ def profile(
     wpm: Wpm = 238.0,
     output: Output = None,
     allow_outside: AllowOutside = False,
+    limit: Limits = None,
 ) -> int:
     """Measure each lesson file on every dimension."""
     from matcheck.api import profile_files
     from matcheck.settings import Settings
 
-    profiles = profile_files(files, Settings(words_per_minute=wpm), _limits(allow_outside))
+    profiles = profile_files(files, Settings(words_per_minute=wpm), _limits(allow_outside, limit))
     if format is ProfileFormat.json:
         from matcheck.report.profile import render_profiles_json
 
@@ -141,6 +149,7 @@ def compare(
     format: Annotated[CompareFormat, typer.Option("--format", "-f")] = CompareFormat.table,
     output: Output = None,
     allow_outside: AllowOutside = False,
+    limit: Limits = None,
 ) -> int:
     """Compare lesson versions; report every difference beyond the declared manipulation."""
     from matcheck.api import Version, compare_versions, version_names
@@ -155,7 +164,7 @@ def compare(
         manipulated=manipulated or (),
         tolerance_overrides=tolerance or (),
         settings=Settings(words_per_minute=wpm),
-        limits=_limits(allow_outside),
+        limits=_limits(allow_outside, limit),
     )
     render_report(report, format.value, output, files)
     return EXIT_DIFFERS if report.differs else EXIT_MATCHED
@@ -223,6 +232,7 @@ def check(
         bool, typer.Option("--all", help="List matched measures too in the table.")
     ] = False,
     allow_outside: AllowOutside = False,
+    limit: Limits = None,
 ) -> int:
     """Check a study (or every study below a folder) as its design requires."""
     from matcheck.study import load_study
@@ -243,13 +253,13 @@ def check(
         from matcheck.api import check_against
 
         report = check_against(
-            study, against, extra_tolerances=tolerance or (), limits=_limits(allow_outside)
+            study, against, extra_tolerances=tolerance or (), limits=_limits(allow_outside, limit)
         )
     else:
         from matcheck.api import check_study
 
         report = check_study(
-            loaded, extra_tolerances=tolerance or (), limits=_limits(allow_outside)
+            loaded, extra_tolerances=tolerance or (), limits=_limits(allow_outside, limit)
         )
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
     render_report(report, format.value, output, inputs, show_matched=all_rows)
@@ -324,14 +334,13 @@ def measures() -> int:
     return EXIT_MATCHED
 
 
-def _limits(allow_outside: bool) -> ReadLimits:
-    from matcheck.limits import DEFAULT_LIMITS
-
-    if not allow_outside:
-        return DEFAULT_LIMITS
+def _limits(allow_outside: bool, overrides: list[str] | None) -> ReadLimits:
     from dataclasses import replace
 
-    return replace(DEFAULT_LIMITS, allow_outside_files=True)
+    from matcheck.limits import parse_limits
+
+    limits = parse_limits(overrides or [])
+    return replace(limits, allow_outside_files=True) if allow_outside else limits
 
 
 def emit(text: str, output: Path | None, inputs: Sequence[Path]) -> None:

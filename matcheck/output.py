@@ -1,8 +1,15 @@
-"""Write a report to a file: never over an input, always atomically."""
+"""Write a report to a file: never over an input, always atomically.
+
+matcheck writes nothing but the report the user names with ``--output`` (reading a lesson
+leaves its folder untouched). The report goes to a temporary file beside the target, is
+flushed to disk, and is renamed over the target in one step (``os.replace``, atomic on POSIX
+and Windows), so a crash or a full disk leaves the old file whole and no partial report.
+"""
 
 from __future__ import annotations
 
 import os
+import stat
 import tempfile
 from collections.abc import Sequence
 from pathlib import Path
@@ -13,8 +20,9 @@ from matcheck.errors import UsageError
 def write_output(output: Path, text: str, inputs: Sequence[Path]) -> None:
     """Write ``text`` to ``output`` via a temporary file and a rename.
 
-    Refuses when ``output`` is one of the inputs (also through a link) or a directory, so a
-    report can never replace a lesson.
+    Refuses when ``output`` is one of the inputs (also through a symbolic or hard link), a
+    directory, or an existing file that is not a regular file (a device, a pipe), so a report
+    can never replace a lesson or anything that is not a report.
     """
     target = output.resolve()
     for path in inputs:
@@ -26,12 +34,32 @@ def write_output(output: Path, text: str, inputs: Sequence[Path]) -> None:
         raise UsageError(f"--output {output} is a directory")
     if not target.parent.is_dir():
         raise UsageError(f"--output {output}: the folder {target.parent} does not exist")
-    handle, temporary = tempfile.mkstemp(prefix=".matcheck-", suffix=".tmp", dir=target.parent)
+    existing = target.stat() if target.exists() else None
+    if existing is not None and not stat.S_ISREG(existing.st_mode):
+        raise UsageError(f"--output {output} is not a regular file; choose a file path")
+    # A replaced report keeps its permissions; a new one gets what the umask allows.
+    mode = stat.S_IMODE(existing.st_mode) if existing is not None else 0o666 & ~_umask()
     try:
-        with os.fdopen(handle, "w", encoding="utf-8") as stream:
+        handle, temporary = tempfile.mkstemp(prefix=".matcheck-", suffix=".tmp", dir=target.parent)
+    except OSError as error:
+        raise UsageError(f"--output {output} cannot be written ({error.strerror})") from None
+    try:
+        with os.fdopen(handle, "w", encoding="utf-8", errors="surrogateescape") as stream:
             stream.write(text)
+            stream.flush()
+            os.fsync(stream.fileno())
+        os.chmod(temporary, mode)
         os.replace(temporary, target)
-    except BaseException:
+    except BaseException as error:
         if os.path.exists(temporary):
             os.unlink(temporary)
+        if isinstance(error, OSError):
+            raise UsageError(f"--output {output} cannot be written ({error.strerror})") from None
         raise
+
+
+def _umask() -> int:
+    # The umask can only be read by setting it; the CLI is single-threaded at this point.
+    current = os.umask(0o022)
+    os.umask(current)
+    return current

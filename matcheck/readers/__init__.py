@@ -12,9 +12,11 @@ from collections.abc import Callable
 from dataclasses import replace
 from pathlib import Path
 
-from matcheck.errors import InputError, LimitExceeded, NoText
+from matcheck.errors import InputError, LimitExceeded, MatcheckError, NoText
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 from matcheck.model import Document
+from matcheck.readers.builder import MAX_WARNINGS
+from matcheck.readers.deadline import deadline
 from matcheck.readers.sniff import EXTENSIONS, sniff_format
 
 Reader = Callable[[Path, ReadLimits], Document]
@@ -64,18 +66,38 @@ def read(path: str | Path, limits: ReadLimits = DEFAULT_LIMITS) -> Document:
     """Read one lesson file.
 
     Raises :class:`~matcheck.errors.InputError` (or a subclass) naming the file when it does
-    not exist, is not a regular file, is empty, too large, of an unknown or broken format, or
-    holds no lesson text.
+    not exist, is not a regular file, is empty, too large, of an unknown or broken format,
+    holds no lesson text, or takes longer than ``limits.max_read_seconds`` to read.
     """
-    path = Path(path)
+    try:
+        return _read(Path(path), limits)
+    except MatcheckError as error:
+        # The error is one line on stderr: a file name with a newline or other control
+        # characters (or bytes that are not UTF-8) is shown escaped.
+        if error.path is not None:
+            error.path = _printable(error.path)
+        raise
+
+
+def _printable(text: str) -> str:
+    """``text`` with unprintable characters (controls, lone surrogates) as Python escapes."""
+    if text.isprintable():
+        return text
+    return "".join(char if char.isprintable() else repr(char)[1:-1] for char in text)
+
+
+def _read(path: Path, limits: ReadLimits) -> Document:
     shown = str(path)
-    if not path.exists():
-        raise InputError("no such file", path=shown)
-    if path.is_dir():
-        raise InputError("is a directory, not a lesson file", path=shown)
-    if not path.is_file():
-        raise InputError("is not a regular file", path=shown)
-    size = path.stat().st_size
+    try:
+        if not path.exists():
+            raise InputError("no such file", path=shown)
+        if path.is_dir():
+            raise InputError("is a directory, not a lesson file", path=shown)
+        if not path.is_file():
+            raise InputError("is not a regular file", path=shown)
+        size = path.stat().st_size
+    except OSError as error:  # a folder on the way that cannot be searched, ...
+        raise InputError(f"cannot be read ({error.strerror})", path=shown) from None
     if size == 0:
         raise NoText("the file is empty", path=shown)
     if size > limits.max_file_bytes:
@@ -83,12 +105,17 @@ def read(path: str | Path, limits: ReadLimits = DEFAULT_LIMITS) -> Document:
             f"the file is {size / 2**20:.0f} MiB, above the limit of "
             f"{limits.max_file_bytes / 2**20:.0f} MiB",
             path=shown,
-            hint="raise ReadLimits.max_file_bytes if this is really a lesson",
+            hint="raise it with --limit max_file_bytes=N if this is really a lesson",
         )
-    with path.open("rb") as handle:
-        head = handle.read(8192)
+    try:
+        with path.open("rb") as handle:
+            head = handle.read(8192)
+    except OSError as error:
+        raise InputError(f"cannot be read ({error.strerror})", path=shown) from None
     fmt = sniff_format(head, path)
-    document = READERS[fmt](path, limits)
+    with deadline(limits.max_read_seconds, shown):
+        document = READERS[fmt](path, limits)
+    document = _flag_huge_images(document, limits)
     if fmt in UNDETECTED:
         document = replace(document, undetected=UNDETECTED[fmt])
     expected = EXTENSIONS.get(path.suffix.lower())
@@ -104,3 +131,25 @@ def read(path: str | Path, limits: ReadLimits = DEFAULT_LIMITS) -> Document:
     if not any(block.text for block in document.blocks):
         raise NoText("the file holds no lesson text", path=shown)
     return document
+
+
+def _flag_huge_images(document: Document, limits: ReadLimits) -> Document:
+    """Warn about images whose header declares more than ``max_image_pixels`` pixels.
+
+    No reader decodes pixels, so such an image costs nothing; it is still worth a word, as a
+    real lesson picture is never that large and a decompression bomb is.
+    """
+    flagged = [
+        f"the image {figure.source} declares {figure.width_px}x{figure.height_px} pixels, above "
+        f"max_image_pixels ({limits.max_image_pixels:,}); its size is read from its header "
+        "and its pixels are never decoded"
+        for figure in document.figures
+        if (figure.pixel_area or 0) > limits.max_image_pixels
+    ]
+    if not flagged:
+        return document
+    unique = list(dict.fromkeys(flagged))
+    if len(unique) > MAX_WARNINGS:
+        more = len(unique) - MAX_WARNINGS
+        unique = [*unique[:MAX_WARNINGS], f"and {more} more images above max_image_pixels"]
+    return replace(document, warnings=(*document.warnings, *unique))

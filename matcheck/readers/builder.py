@@ -15,8 +15,12 @@ from __future__ import annotations
 
 import unicodedata
 from collections.abc import Iterable
+from typing import TYPE_CHECKING
 
 from matcheck.model import Block, BlockKind, Document, Emphasis, Figure, Location, Span
+
+if TYPE_CHECKING:
+    from matcheck.readers.wordlimit import WordBudget
 
 Run = tuple[str, frozenset[Emphasis]]
 
@@ -34,6 +38,9 @@ _LIGATURES = {
     "\ufb05": "st",
     "\ufb06": "st",
 }
+# Distinct warnings kept per document; a hostile file (100,000 broken image links) would
+# otherwise bury the report in them. The rest are counted in one last warning.
+MAX_WARNINGS = 50
 
 
 def normalize_text(text: str) -> str:
@@ -81,12 +88,18 @@ def _spans(kinds: list[frozenset[Emphasis]]) -> tuple[Span, ...]:
 class DocumentBuilder:
     """Collect blocks and figures in reading order, then :meth:`build` the document."""
 
-    def __init__(self, path: str, format: str) -> None:
+    def __init__(self, path: str, format: str, budget: WordBudget | None = None) -> None:
         self.path = path
         self.format = format
+        # Counts the words of every block added and refuses past ReadLimits.max_words.
+        self.budget = budget
         self._blocks: list[Block] = []
         self._figures: list[Figure] = []
+        # Indices of figures added without a caption, latest last (some may have one since).
+        self._uncaptioned: list[int] = []
         self._warnings: list[str] = []
+        self._warned: set[str] = set()
+        self._more_warnings = 0
         self._excluded: list[str] = []
         self._section: str | None = None
         self._paragraphs = 0
@@ -114,6 +127,8 @@ class DocumentBuilder:
         text, spans = normalize_runs(runs)
         if not text:
             return None
+        if self.budget is not None:
+            self.budget.add(text)
         if kind is BlockKind.HEADING:
             self._section = text
         ordinal = None
@@ -156,6 +171,8 @@ class DocumentBuilder:
             readable,
         )
         self._figures.append(figure)
+        if not figure.caption:
+            self._uncaptioned.append(len(self._figures) - 1)
         return figure
 
     def set_caption(self, figure_index: int, caption: str) -> None:
@@ -165,17 +182,39 @@ class DocumentBuilder:
 
         self._figures[figure_index] = replace(figure, caption=normalize_text(caption))
 
+    def caption_latest(self, caption: str) -> bool:
+        """Caption the latest figure that has no caption yet; ``False`` if there is none.
+
+        Constant time per caption, so a file of many captions cannot make reading quadratic.
+        """
+        while self._uncaptioned:
+            index = self._uncaptioned.pop()
+            if not self._figures[index].caption:
+                self.set_caption(index, caption)
+                return True
+        return False
+
     @property
     def figures(self) -> tuple[Figure, ...]:
         return tuple(self._figures)
+
+    @property
+    def figure_count(self) -> int:
+        """``len(figures)`` without copying them (readers ask once per caption)."""
+        return len(self._figures)
 
     @property
     def blocks(self) -> tuple[Block, ...]:
         return tuple(self._blocks)
 
     def warn(self, message: str) -> None:
-        if message not in self._warnings:
+        if message in self._warned:
+            return
+        self._warned.add(message)
+        if len(self._warnings) < MAX_WARNINGS:
             self._warnings.append(message)
+        else:
+            self._more_warnings += 1
 
     def exclude(self, what: str) -> None:
         """Record something deliberately left out of the lesson text."""
@@ -183,6 +222,9 @@ class DocumentBuilder:
             self._excluded.append(what)
 
     def build(self) -> Document:
+        warnings = tuple(self._warnings)
+        if self._more_warnings:
+            warnings += (f"and {self._more_warnings} more warnings not shown",)
         return Document(
             path=self.path,
             format=self.format,
@@ -190,5 +232,5 @@ class DocumentBuilder:
             figures=tuple(self._figures),
             pages=self.pages,
             excluded=tuple(self._excluded),
-            warnings=tuple(self._warnings),
+            warnings=warnings,
         )

@@ -9,6 +9,7 @@ recorded in ``Document.excluded``.
 
 from __future__ import annotations
 
+import errno
 import zipfile
 import zlib
 from functools import cache
@@ -20,6 +21,7 @@ from matcheck.limits import ReadLimits
 from matcheck.model import Document
 from matcheck.readers.builder import DocumentBuilder
 from matcheck.readers.docx_xml import Element, w
+from matcheck.readers.wordlimit import WordBudget
 
 if TYPE_CHECKING:
     from docx.opc.part import Part
@@ -35,7 +37,7 @@ _WORD_MAIN_TYPES = {
     "application/vnd.ms-word.document.macroEnabled.main+xml",
     "application/vnd.ms-word.template.macroEnabledTemplate.main+xml",
 }
-_HINT = "raise ReadLimits.{} if this is really a lesson"
+_HINT = "raise it with --limit {}=N if this is really a lesson"
 # Footnote entries that are layout, not notes (ECMA-376 17.18.33).
 _NOTE_LAYOUT_TYPES = {"separator", "continuationSeparator", "continuationNotice"}
 
@@ -53,7 +55,7 @@ def read_docx(path: Path, limits: ReadLimits) -> Document:
     main = package.main_document_part
     styles_part = _related(main, RT.STYLES)
     styles = StyleSheet(None if styles_part is None else _element(styles_part, shown))
-    builder = DocumentBuilder(shown, "docx")
+    builder = DocumentBuilder(shown, "docx", WordBudget(limits, shown, "DOCX"))
     try:
         body = _element(main, shown).find(w("body"))
         if body is not None:
@@ -80,13 +82,19 @@ def _check_archive(path: Path, limits: ReadLimits, shown: str) -> None:
         with zipfile.ZipFile(path) as archive:
             infos = archive.infolist()
             _check_sizes(infos, limits, shown)
+            _check_xml_size(archive, infos, limits, shown)
             names = {info.filename for info in infos}
             if _MAIN_PART not in names and not _declares_word(archive, names):
                 raise UnsupportedFormat("this is a ZIP archive but not a Word document", path=shown)
             if _parser_resolves_entities():
                 _refuse_dtds(archive, infos, shown)
     except OSError as error:
-        raise InputError(f"the file cannot be read ({error.strerror})", path=shown) from error
+        if error.errno != errno.EINVAL:
+            raise InputError(f"the file cannot be read ({error.strerror})", path=shown) from error
+        # zipfile seeks to the offsets the archive states; a damaged one is before the start.
+        raise CorruptFile(
+            "the DOCX is damaged or truncated (not a readable ZIP archive)", path=shown
+        ) from error
     except (zipfile.BadZipFile, EOFError, ValueError, zlib.error) as error:
         raise CorruptFile(
             "the DOCX is damaged or truncated (not a readable ZIP archive)", path=shown
@@ -124,6 +132,53 @@ def _check_sizes(infos: list[zipfile.ZipInfo], limits: ReadLimits, shown: str) -
                 path=shown,
                 hint=_HINT.format("max_zip_ratio"),
             )
+
+
+def _check_xml_size(
+    archive: zipfile.ZipFile, infos: list[zipfile.ZipInfo], limits: ReadLimits, shown: str
+) -> None:
+    """Refuse a package whose XML parts unpack beyond ``max_xml_bytes`` in total.
+
+    python-docx parses every XML part into a tree when it opens the package, at several
+    times the text's size in memory. A part is XML if its name says so or its declared content
+    type does (a hostile package may give an XML part any name).
+    """
+    types = _content_types(archive, infos, limits, shown)
+    total = 0
+    for info in infos:
+        name = info.filename
+        declared = types.get("/" + name.lower()) or types.get(name.rpartition(".")[2].lower(), "")
+        if name.lower().endswith((".xml", ".rels")) or declared.endswith("xml"):
+            total += info.file_size
+    if total > limits.max_xml_bytes:
+        raise LimitExceeded(
+            f"the DOCX's XML parts unpack to {total / 2**20:.0f} MiB, above max_xml_bytes "
+            f"({limits.max_xml_bytes / 2**20:.0f} MiB)",
+            path=shown,
+            hint=_HINT.format("max_xml_bytes"),
+        )
+
+
+def _content_types(
+    archive: zipfile.ZipFile, infos: list[zipfile.ZipInfo], limits: ReadLimits, shown: str
+) -> dict[str, str]:
+    """``[Content_Types].xml`` as a map of lower-case part names and extensions to types."""
+    from docx.oxml.parser import parse_xml
+
+    info = next((info for info in infos if info.filename == "[Content_Types].xml"), None)
+    if info is None or info.file_size > limits.max_xml_bytes:
+        return {}  # no map: python-docx refuses the package; too big: the total refuses it
+    try:
+        root = parse_xml(archive.read(info))
+    except (SyntaxError, ValueError):  # lxml's XMLSyntaxError is a SyntaxError
+        return {}  # python-docx reports the broken part when it opens the package
+    types: dict[str, str] = {}
+    for element in root.iter():
+        kind = str(element.get("ContentType") or "").lower()
+        key = element.get("PartName") or element.get("Extension")
+        if key:
+            types[str(key).lower()] = kind
+    return types
 
 
 def _declares_word(archive: zipfile.ZipFile, names: set[str]) -> bool:
@@ -165,10 +220,12 @@ def _open(path: Path, shown: str) -> Package:
     except MemoryError:
         raise
     except Exception as error:
+        _refuse_entity_bomb(error, shown)
         # python-docx and lxml signal a broken package with many unrelated types (KeyError,
         # ValueError, XMLSyntaxError, zlib.error, ...); here each of them means a broken file.
         raise CorruptFile(
-            f"the DOCX is damaged and cannot be opened ({type(error).__name__}: {error})",
+            f"the DOCX is damaged and cannot be opened ({type(error).__name__}: "
+            f"{_one_line(str(error))})",
             path=shown,
         ) from error
     if main.content_type not in _WORD_MAIN_TYPES:
@@ -194,8 +251,30 @@ def _element(part: Part, shown: str) -> Element:
     try:
         return parse_xml(part.blob)
     except (SyntaxError, ValueError) as error:  # lxml's XMLSyntaxError is a SyntaxError
+        _refuse_entity_bomb(error, shown)
         raise CorruptFile(
             f"the DOCX part {part.partname} is damaged (not well-formed XML)", path=shown
+        ) from error
+
+
+def _one_line(text: str, limit: int = 120) -> str:
+    """A library's message as one short line (lxml's end in a newline and a position)."""
+    text = " ".join(text.split())
+    return text if len(text) <= limit else text[: limit - 3] + "..."
+
+
+def _refuse_entity_bomb(error: Exception, shown: str) -> None:
+    """Name an entity-expansion attack that libxml2 stopped, rather than call it damage.
+
+    Entities are never expanded (see :func:`_parser_resolves_entities`), but libxml2 2.11+
+    still measures what a referenced entity would expand to and stops at its amplification
+    limit ("Maximum entity amplification factor exceeded").
+    """
+    if "amplification" in str(error):
+        raise CorruptFile(
+            "the DOCX declares XML entities that would expand enormously (an "
+            "entity-expansion attack); it was not read",
+            path=shown,
         ) from error
 
 

@@ -137,11 +137,7 @@ class StoryReader:
     def _caption(self, text: str) -> None:
         if _TABLE_LABEL.match(text):
             return
-        figures = self.builder.figures
-        for index in range(len(figures) - 1, -1, -1):
-            if not figures[index].caption:
-                self.builder.set_caption(index, text)
-                return
+        self.builder.caption_latest(text)
 
     def _add_figures(self, figures: list[FigureInfo]) -> None:
         for info in figures:

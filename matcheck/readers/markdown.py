@@ -33,6 +33,7 @@ from matcheck.model import BlockKind, Document, Emphasis
 from matcheck.readers.builder import NO_EMPHASIS, DocumentBuilder, Run
 from matcheck.readers.decode import decode_lesson_text
 from matcheck.readers.images import image_size
+from matcheck.readers.wordlimit import raw_word_count, refuse_words
 
 # Inline HTML tags that carry emphasis (their CSS-free meaning in every browser).
 HTML_EMPHASIS = {
@@ -62,14 +63,17 @@ _EQUALS = ord("=")
 def read_markdown(path: Path, limits: ReadLimits) -> Document:
     """Read ``path`` as Markdown; ``Location.line`` is the 1-based source line of each block.
 
-    Raises :class:`~matcheck.errors.InputError` if the file cannot be read and
-    :class:`~matcheck.errors.CorruptFile` if the parser fails on it.
+    Raises :class:`~matcheck.errors.InputError` if the file cannot be read,
+    :class:`~matcheck.errors.LimitExceeded` beyond ``limits.max_words`` (counted on the raw
+    text, before parsing) and :class:`~matcheck.errors.CorruptFile` if the parser fails on it.
     """
     try:
         data = path.read_bytes()
     except OSError as error:
         raise InputError(f"cannot be read ({error.strerror})", path=str(path)) from None
     text, warnings = decode_lesson_text(data, path)
+    # Counted on the raw text before parsing, so an enormous file costs no parse.
+    refuse_words(raw_word_count(text), limits, str(path), "Markdown file", "words and marks")
     builder = DocumentBuilder(str(path), "markdown")
     for warning in warnings:
         builder.warn(warning)
@@ -282,8 +286,8 @@ class _Walker:
 
     def _caption(self, runs: list[Run], line: int | None) -> None:
         block = self.builder.add_block(BlockKind.CAPTION, runs, line=line)
-        if block is not None and self.builder.figures:
-            self.builder.set_caption(len(self.builder.figures) - 1, block.text)
+        if block is not None and self.builder.figure_count:
+            self.builder.set_caption(self.builder.figure_count - 1, block.text)
 
     def _html_block(self, token: Token) -> None:
         base = token.map[0] if token.map else None

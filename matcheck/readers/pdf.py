@@ -42,6 +42,7 @@ from matcheck.errors import CorruptFile, EncryptedFile, LimitExceeded, NoText
 from matcheck.limits import ReadLimits
 from matcheck.model import Document
 from matcheck.readers.builder import DocumentBuilder
+from matcheck.readers.wordlimit import WordBudget
 
 if TYPE_CHECKING:
     from pypdf import PdfReader
@@ -67,6 +68,8 @@ _BROKEN = (
     OSError,
     EOFError,
     UnicodeError,
+    # pypdf's word for a filter or feature it does not know (a damaged name, usually).
+    NotImplementedError,
 )
 
 
@@ -107,6 +110,20 @@ def _reason(exc: BaseException) -> str:
 
 
 def _corrupt(exc: BaseException, shown: str) -> NoReturn:
+    from pypdf.errors import LimitReachedError
+
+    if isinstance(exc, LimitReachedError):
+        # pypdf's own guards (a stream that inflates past 75 MB, a page tree too deep or too
+        # large, ...): a hostile or absurd file, not a damaged one.
+        raise LimitExceeded(
+            f"the PDF is beyond one of pypdf's safety limits: {_reason(exc)}",
+            path=shown,
+            hint="a lesson PDF should never reach these; check where this file came from",
+        ) from exc
+    if isinstance(exc, NotImplementedError):
+        raise CorruptFile(
+            f"the PDF uses something that cannot be read: {_reason(exc)}", path=shown
+        ) from exc
     raise CorruptFile(f"the PDF is damaged or truncated: {_reason(exc)}", path=shown) from exc
 
 
@@ -119,7 +136,13 @@ def _open(data: bytes, shown: str) -> PdfReader:
     )
     try:
         reader = PdfReader(io.BytesIO(data), strict=False)
-        if reader.is_encrypted and reader.decrypt("") == PasswordType.NOT_DECRYPTED:
+        encrypted = reader.is_encrypted
+    except (PyPdfError, *_BROKEN) as exc:
+        _corrupt(exc, shown)
+    if not encrypted:
+        return reader
+    try:
+        if reader.decrypt("") == PasswordType.NOT_DECRYPTED:
             raise protected
     except DependencyError as exc:
         # AES needs the optional 'cryptography' package in pypdf.
@@ -154,12 +177,12 @@ def _read_pages(reader: PdfReader, limits: ReadLimits, shown: str) -> list[PageC
         raise LimitExceeded(
             f"the PDF has {count} pages, above the limit of {limits.max_pages} pages",
             path=shown,
-            hint="raise ReadLimits.max_pages if this is really a lesson",
+            hint="raise it with --limit max_pages=N if this is really a lesson",
         )
     styles = FontStyles()
     alt = alt_texts(reader)
     pages: list[PageContent] = []
-    words = 0
+    budget = WordBudget(limits, shown, "PDF")
     for index in range(count):
         try:
             page = reader.pages[index]
@@ -168,13 +191,8 @@ def _read_pages(reader: PdfReader, limits: ReadLimits, shown: str) -> list[PageC
             content = read_page(page, index + 1, styles, page_alt)
         except (PyPdfError, *_BROKEN) as exc:
             _corrupt(exc, shown)
-        words += sum(len(fragment.text.split()) for fragment in content.fragments)
-        if words > limits.max_words:
-            raise LimitExceeded(
-                f"the PDF has more than {limits.max_words} words (the limit)",
-                path=shown,
-                hint="raise ReadLimits.max_words if this is really a lesson",
-            )
+        for fragment in content.fragments:
+            budget.add(fragment.text)
         pages.append(content)
     return pages
 

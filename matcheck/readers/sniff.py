@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import codecs
+import re
 from collections.abc import Sequence
 from pathlib import Path
 
@@ -19,6 +20,8 @@ EXTENSIONS = {
     ".text": "text",
 }
 
+_PDF_VERSION = re.compile(rb"%PDF-\d\.\d")
+_PDF_OBJECT = re.compile(rb"\n\d+ \d+ obj\b")
 _ZIP_MAGIC = (b"PK\x03\x04", b"PK\x05\x06")
 # OLE2 compound file: legacy .doc, or an Office file encrypted with a password.
 _OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
@@ -49,8 +52,17 @@ def sniff_format(head: bytes, path: Path) -> str:
     """
     shown = str(path)
     # A PDF header may follow a little junk (the PDF spec allows it within the first 1024 bytes).
+    # Text that merely mentions "%PDF-" stays text: the junk or the head must be binary, or a
+    # full header must be followed by an indirect object ("1 0 obj", PDF 32000-1 §7.3.10).
     marker = head.find(b"%PDF-", 0, 1024)
-    if marker == 0 or (marker > 0 and _looks_binary(head[:marker])):
+    if marker == 0 or (
+        marker > 0
+        and (
+            _looks_binary(head[:marker])
+            or _looks_binary(head)
+            or (_PDF_VERSION.match(head, marker) and _PDF_OBJECT.search(head, marker))
+        )
+    ):
         return "pdf"
     if head.startswith(_ZIP_MAGIC):
         return "docx"

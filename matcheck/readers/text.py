@@ -15,19 +15,21 @@ from matcheck.limits import ReadLimits
 from matcheck.model import BlockKind, Document
 from matcheck.readers.builder import DocumentBuilder
 from matcheck.readers.decode import decode_lesson_text
+from matcheck.readers.wordlimit import raw_word_count, refuse_words
 
 
 def read_text(path: Path, limits: ReadLimits) -> Document:
     """Read ``path`` as plain text; ``Location.line`` is each paragraph's first line (1-based).
 
-    ``limits`` is accepted for the common reader signature; plain text has nothing that
-    needs a limit beyond the file size that :func:`matcheck.readers.read` already checks.
+    Raises :class:`~matcheck.errors.LimitExceeded` beyond ``limits.max_words``.
     """
     try:
         data = path.read_bytes()
     except OSError as error:
         raise InputError(f"cannot be read ({error.strerror})", path=str(path)) from None
     text, warnings = decode_lesson_text(data, path)
+    # Counted on the raw text before parsing, so an enormous file costs no parse.
+    refuse_words(raw_word_count(text), limits, str(path), "text file", "words and marks")
     builder = DocumentBuilder(str(path), "text")
     for warning in warnings:
         builder.warn(warning)
