@@ -211,6 +211,7 @@ def check_against(
             label = f"{condition.name}@{revision}"
             delta = compare_versions(
                 [Version(label, old.files), Version(condition.name, condition.files)],
+                settings=Settings(words_per_minute=study.reading_rate or DEFAULT_WPM),
                 limits=limits,
             )
             changed = [f for f in delta.root_findings(Status.DIFFERS)]
@@ -250,5 +251,7 @@ def _change_phrase(finding: Finding) -> str:
         count = int(finding.difference)
         return f"{count} passage{'s' if count != 1 else ''} {what}"
     if finding.difference is not None:
-        return f"{finding.dimension} {finding.difference:+g}"
+        relative = finding.relative_difference
+        change = f"{finding.dimension} {finding.difference:+.4g}"
+        return f"{change} ({relative * 100:+.1f}%)" if relative is not None else change
     return finding.dimension

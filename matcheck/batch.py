@@ -19,7 +19,8 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from matcheck.errors import EXIT_DIFFERS, EXIT_INPUT, EXIT_MATCHED, MatcheckError, UsageError
-from matcheck.findings import Report
+from matcheck.findings import SCHEMA_VERSION, Report
+from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 
 if TYPE_CHECKING:
     from rich.console import Console
@@ -52,16 +53,21 @@ def find_studies(folder: Path) -> list[Path]:
     return found
 
 
-def check_one(path: Path, against: str | None, tolerances: Sequence[str]) -> StudyResult:
+def check_one(
+    path: Path,
+    against: str | None,
+    tolerances: Sequence[str],
+    limits: ReadLimits = DEFAULT_LIMITS,
+) -> StudyResult:
     """Check one study; the project's own errors become a one-line result, not an exception."""
     from matcheck.api import check_against, check_study
     from matcheck.study import load_study
 
     try:
         if against:
-            report = check_against(path, against, extra_tolerances=tolerances)
+            report = check_against(path, against, extra_tolerances=tolerances, limits=limits)
         else:
-            report = check_study(load_study(path), extra_tolerances=tolerances)
+            report = check_study(load_study(path), extra_tolerances=tolerances, limits=limits)
     except MatcheckError as problem:
         return StudyResult(path, None, str(problem))
     return StudyResult(path, report, None)
@@ -74,16 +80,17 @@ def check_all(
     against: str | None = None,
     tolerances: Sequence[str] = (),
     progress: bool = False,
+    limits: ReadLimits = DEFAULT_LIMITS,
 ) -> list[StudyResult]:
     """Check studies with ``jobs`` worker processes (1: in this process); keeps path order."""
     workers = jobs if jobs is not None else (os.cpu_count() or 1)
     if workers < 1:
         raise UsageError(f"--jobs must be at least 1, got {workers}")
     if workers == 1 or len(paths) == 1:
-        return [check_one(path, against, tolerances) for path in paths]
+        return [check_one(path, against, tolerances, limits) for path in paths]
     results: dict[Path, StudyResult] = {}
     with ProcessPoolExecutor(max_workers=min(workers, len(paths))) as pool:
-        futures = [pool.submit(check_one, path, against, tolerances) for path in paths]
+        futures = [pool.submit(check_one, path, against, tolerances, limits) for path in paths]
         if progress:
             from rich.progress import Progress
 
@@ -108,6 +115,7 @@ def check_folder(
     output: Path | None,
     against: str | None,
     tolerances: Sequence[str],
+    limits: ReadLimits = DEFAULT_LIMITS,
 ) -> int:
     """The ``check DIR`` command: returns the exit status."""
     import json
@@ -119,11 +127,17 @@ def check_folder(
     if not paths:
         raise UsageError(f"{folder}: no study files (TOML with [[conditions]]) below this folder")
     results = check_all(
-        paths, jobs=jobs, against=against, tolerances=tolerances, progress=sys.stderr.isatty()
+        paths,
+        jobs=jobs,
+        against=against,
+        tolerances=tolerances,
+        progress=sys.stderr.isatty(),
+        limits=limits,
     )
     inputs = [*paths]
     if format == "json":
         data = {
+            "schema_version": SCHEMA_VERSION,
             "studies": [
                 {
                     "path": str(r.path),
@@ -131,7 +145,7 @@ def check_folder(
                     "report": report_dict(r.report) if r.report else None,
                 }
                 for r in results
-            ]
+            ],
         }
         emit(json.dumps(data, indent=2, ensure_ascii=False) + "\n", output, inputs)
     elif format in ("markdown", "github"):
@@ -158,27 +172,37 @@ def check_folder(
 
 
 def _summary(results: Sequence[StudyResult], console: Console) -> None:
+    from rich.markup import escape
     from rich.table import Table
 
     from matcheck.findings import Status
 
     table = Table(title="Studies", title_justify="left", header_style="bold")
-    for column in ("Study", "Conditions", "Verdict", "Differ", "Inconclusive"):
+    for column in ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Problem"):
         table.add_column(column)
     for result in results:
         if result.report is None:
-            table.add_row(str(result.path), "—", "error", "—", result.error or "", style="red")
+            table.add_row(
+                escape(str(result.path)),
+                "—",
+                "error",
+                "—",
+                "—",
+                escape(result.error or ""),
+                style="red",
+            )
             continue
         report = result.report
         differ = len(report.root_findings(Status.DIFFERS))
         unclear = len(report.root_findings(Status.INCONCLUSIVE))
         verdict = "differs" if report.differs else "matched"
         table.add_row(
-            str(result.path),
+            escape(str(result.path)),
             str(len(report.conditions)),
             verdict,
             str(differ),
             str(unclear),
+            "",
             style="bold red" if report.differs else None,
         )
     console.print(table)

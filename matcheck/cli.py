@@ -247,6 +247,7 @@ def check(
             output=output,
             against=against,
             tolerances=tolerance or (),
+            limits=_limits(allow_outside, limit),
         )
     loaded = load_study(study)
     if against:

@@ -59,6 +59,9 @@ class Location:
     line: int | None = None
     section: str | None = None
     paragraph: int | None = None
+    # For a lesson read from several files: the 0-based index of the file (page and line
+    # belong to that file). None for a one-file lesson.
+    part: int | None = None
 
     def describe(self) -> str:
         """A short human-readable place, e.g. ``'§ Cables, paragraph 4, page 2'``."""

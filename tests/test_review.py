@@ -156,3 +156,27 @@ def test_pre_commit_hook_entry_runs_as_pre_commit_would(repo: Path) -> None:
     )
     assert result.returncode == 1, result.stderr
     assert "Traceback" not in result.stderr
+
+
+def test_github_annotation_names_the_part_of_a_lesson_in_parts(
+    repo: Path, capsys: pytest.CaptureFixture[str], monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # The diagrams condition in two files: the removed paragraph's counterpart context is in
+    # part 2, so an annotation about it must point at part 2, not part 1.
+    study = repo / "study"
+    text = (study / "text.md").read_text("utf-8")
+    cut = text.index("## Removing the Tyre")
+    (study / "text-1.md").write_text(text[:cut], "utf-8")
+    (study / "text-2.md").write_text(text[cut:], "utf-8")
+    (study / "study.toml").write_text(
+        STUDY.replace('files = ["text.md"]', 'files = ["text-1.md", "text-2.md"]'), "utf-8"
+    )
+    monkeypatch.chdir(repo)
+    assert main(["check", "study/study.toml", "--format", "github"]) == 1
+    removed = next(
+        line for line in capsys.readouterr().out.splitlines() if "passages_removed" in line
+    )
+    match = re.match(r"::error file=([^,]+),line=(\d+),", removed)
+    assert match is not None and match.group(1) == "study/text-2.md"
+    part_two = (study / "text-2.md").read_text("utf-8").splitlines()
+    assert part_two[int(match.group(2)) - 1].startswith("Let out any air")

@@ -122,8 +122,8 @@ def parse_tolerances(
         value = float(number)
         if percent and name in COUNTED_FROM_ZERO:
             raise UsageError(
-                f"--tolerance {text!r}: {name} is a count of differences, so give a number "
-                f"(e.g. {name}=1), not a percentage"
+                f"--tolerance {text!r}: {name} is judged from zero, so give a number "
+                f"(e.g. {name}={'0.2' if name == 'key_term_coverage' else '1'}), not a percentage"
             )
         tolerances[name] = (
             Tolerance(relative=value / 100, reason="set by the user")

@@ -19,20 +19,28 @@ def join_documents(parts: Sequence[Document]) -> Document:
     paragraphs = 0
     warnings: list[str] = []
     excluded: list[str] = []
-    for part in parts:
+    group_offset = 0
+    for index, part in enumerate(parts):
         offset = len(blocks)
+        # List and table ids are numbered per file; shift them so parts never share one.
+        groups = [block.group for block in part.blocks if block.group is not None]
         for block in part.blocks:
             paragraph = block.location.paragraph
             if paragraph is not None:
                 paragraphs += 1
                 paragraph = paragraphs
             location = replace(
-                block.location, block=offset + block.location.block, paragraph=paragraph
+                block.location,
+                block=offset + block.location.block,
+                paragraph=paragraph,
+                part=index,
             )
-            blocks.append(replace(block, location=location))
+            group = None if block.group is None else block.group + group_offset
+            blocks.append(replace(block, location=location, group=group))
         for figure in part.figures:
-            location = replace(figure.location, block=offset + figure.location.block)
+            location = replace(figure.location, block=offset + figure.location.block, part=index)
             figures.append(replace(figure, location=location))
+        group_offset += max(groups, default=0)
         warnings += [f"{part.name}: {w}" for w in part.warnings]
         excluded += [f"{part.name}: {e}" for e in part.excluded]
     pages = [part.pages for part in parts]

@@ -31,19 +31,22 @@ def _relative(path: str) -> str:
         return path
 
 
-def _files(report: Report) -> dict[str, str]:
-    return {c.name: c.paths[0] for c in report.conditions if c.paths}
+def _files(report: Report) -> dict[str, tuple[str, ...]]:
+    return {c.name: c.paths for c in report.conditions if c.paths}
 
 
 def _place(
-    finding: Finding, files: dict[str, str]
+    finding: Finding, files: dict[str, tuple[str, ...]]
 ) -> tuple[str | None, int | None, Evidence | None]:
+    """The file (the right part of a lesson in parts) and line of the first evidence."""
     for item in finding.evidence:
-        path = files.get(item.condition)
-        if path:
+        paths = files.get(item.condition)
+        if paths:
+            part = item.location.part if item.location and item.location.part else 0
             line = item.location.line if item.location else None
-            return path, line, item
-    return files.get(finding.condition), None, None
+            return paths[min(part, len(paths) - 1)], line, item
+    paths = files.get(finding.condition)
+    return (paths[0] if paths else None), None, None
 
 
 def _command(kind: str, message: str, path: str | None, line: int | None, title: str) -> str:

@@ -20,6 +20,7 @@ def location_dict(location: Location | None) -> dict[str, Any] | None:
         "line": location.line,
         "section": location.section,
         "paragraph": location.paragraph,
+        "part": location.part,
         "description": location.describe(),
     }
 
