@@ -14,36 +14,41 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Literal
 
+
+def _items(text: str) -> list[str]:
+    return [item.strip() for item in text.split(",")]
+
+
 TOPICS: dict[str, list[str]] = {
-    "Home networking": [
-        "router", "firmware", "antenna", "channel", "cable", "switch", "gateway", "subnet",
-        "password", "repeater", "printer", "signal", "lease", "hostname", "update",
-    ],
-    "Bicycle repair": [
-        "chain", "derailleur", "brake pad", "spoke", "tyre", "inner tube", "valve", "crank",
-        "saddle", "headset", "cassette", "cable housing", "rim", "hub", "pedal",
-    ],
-    "Composting": [
-        "heap", "bin", "leaf litter", "kitchen scrap", "worm", "moisture", "straw", "lid",
-        "nitrogen", "carbon", "fork", "thermometer", "mulch", "sieve", "grass clipping",
-    ],
-    "Coffee brewing": [
-        "grinder", "filter", "kettle", "scale", "bean", "brew ratio", "bloom", "carafe",
-        "dripper", "water", "roast", "burr", "timer", "mug", "sediment",
-    ],
+    "Home networking": _items(
+        "router, firmware, antenna, channel, cable, switch, gateway, subnet, password, "
+        "repeater, printer, signal, lease, hostname, update"
+    ),
+    "Bicycle repair": _items(
+        "chain, derailleur, brake pad, spoke, tyre, inner tube, valve, crank, saddle, headset, "
+        "cassette, cable housing, rim, hub, pedal"
+    ),
+    "Composting": _items(
+        "heap, bin, leaf litter, kitchen scrap, worm, moisture, straw, lid, nitrogen, carbon, "
+        "fork, thermometer, mulch, sieve, grass clipping"
+    ),
+    "Coffee brewing": _items(
+        "grinder, filter, kettle, scale, bean, brew ratio, bloom, carafe, dripper, water, "
+        "roast, burr, timer, mug, sediment"
+    ),
 }
-VERBS = [
-    "checks", "changes", "blocks", "carries", "needs", "replaces", "protects", "slows",
-    "warms", "loosens", "cleans", "measures", "supports", "drains", "shapes", "guides",
-]
-ADJECTIVES = [
-    "loose", "worn", "fresh", "damp", "noisy", "heavy", "spare", "cheap", "sturdy", "dusty",
-    "narrow", "bright", "careful", "gentle", "regular", "sudden",
-]
-OPENERS = [
-    "In most homes", "Before you start", "After a long week", "On older models", "At night",
-    "In cold weather", "With a little practice", "Once a month", "If in doubt", "Later on",
-]
+VERBS = _items(
+    "checks, changes, blocks, carries, needs, replaces, protects, slows, warms, loosens, "
+    "cleans, measures, supports, drains, shapes, guides"
+)
+ADJECTIVES = _items(
+    "loose, worn, fresh, damp, noisy, heavy, spare, cheap, sturdy, dusty, narrow, bright, "
+    "careful, gentle, regular, sudden"
+)
+OPENERS = _items(
+    "In most homes, Before you start, After a long week, On older models, At night, "
+    "In cold weather, With a little practice, Once a month, If in doubt, Later on"
+)
 TEMPLATES = (
     "{opener}, the {adj} {a} usually {verb} the {b}, so look at it first.",
     "A {adj} {a} {verb} the {b} more often than people expect.",
@@ -114,7 +119,11 @@ def make_lesson(total_words: int, seed: int = 11) -> list[Block]:
         if count >= next_table:
             rows = [["Part", "What to check", "How often"]]
             rows += [
-                [item.capitalize(), f"Look at the {item} for wear", rng.choice(["weekly", "monthly"])]
+                [
+                    item.capitalize(),
+                    f"Look at the {item} for wear",
+                    rng.choice(["weekly", "monthly"]),
+                ]
                 for item in rng.sample(words, 4)
             ]
             blocks.append(Block("table", rows=rows))
@@ -184,7 +193,10 @@ def render_markdown(blocks: list[Block], path: Path) -> None:
             chunks.append("\n".join(f"- {item}" for item in block.items))
         elif block.kind == "table":
             header, *body = block.rows
-            lines = ["| " + " | ".join(header) + " |", "|" + "|".join(" --- " for _ in header) + "|"]
+            lines = [
+                "| " + " | ".join(header) + " |",
+                "|" + "|".join(" --- " for _ in header) + "|",
+            ]
             lines += ["| " + " | ".join(row) + " |" for row in body]
             chunks.append("\n".join(lines))
         elif block.kind == "figure":

@@ -38,7 +38,7 @@ from matcheck.model import Document
 from matcheck.readers.decode import CP1252_WARNING
 
 # Generous bounds: a read that should take well under a second must not take this long.
-SECONDS = 20.0
+SECONDS = 60.0  # "terminates", not "is fast": generous for a loaded 2-core machine
 PEAK_RSS_BYTES = 1.5 * 2**30
 
 LESSON = "Check the tyre pressure before every ride. A soft tyre wears out quickly."
@@ -334,7 +334,7 @@ def test_foreign_formats(
 def test_not_a_regular_file(capsys: pytest.CaptureFixture[str], tmp_path: Path) -> None:
     fifo = tmp_path / "pipe.md"
     os.mkfifo(fifo)  # opening it would block until a writer comes: it must not be opened
-    with _terminates(5):
+    with _terminates():
         _refused(capsys, fifo, "not a regular file")
     loop = tmp_path / "loop.md"
     loop.symlink_to(loop)
@@ -401,7 +401,7 @@ def test_zip_bomb_by_ratio_is_refused_before_extraction(
     with zipfile.ZipFile(path, "a", zipfile.ZIP_DEFLATED) as archive:
         archive.writestr("word/media/filler.bin", bytes(8 * 2**20))  # deflate: ~1000:1
     assert path.stat().st_size < 100_000
-    with _terminates(5):
+    with _terminates():
         _refused(capsys, path, "max_zip_ratio", "zip bomb")
 
 
@@ -497,7 +497,7 @@ def test_billion_laughs_in_docx_parts_never_expands(
         members["word/document.xml"], "w:document"
     ).replace(LESSON.encode(), LESSON.encode() + b" &lol3;")
     _rezip(declared, members)
-    with _terminates(5):
+    with _terminates():
         measures, _ = _profiled(capsys, declared)
     assert measures["words"] == len(LESSON.split()) + 1  # "Tyres" heading; no "lol" words
 
@@ -507,7 +507,7 @@ def test_billion_laughs_in_docx_parts_never_expands(
         members["word/document.xml"], "w:document"
     ).replace(LESSON.encode(), b"&lol9;")
     _rezip(referenced, members)
-    with _terminates(5):
+    with _terminates():
         status, out, err = _run(capsys, "profile", referenced, "-f", "json")
     assert "Traceback" not in err
     if status == 2:
@@ -533,7 +533,7 @@ def test_xml_payloads_in_images_and_markdown_are_inert(
     members = _members(path)
     members[_media(members)] = svg
     _rezip(path, members)
-    with _terminates(5):
+    with _terminates():
         measures, _ = _profiled(capsys, path)
     assert (measures["figures"], measures["figures_unreadable"]) == (1, 1)
 
@@ -546,7 +546,7 @@ def test_xml_payloads_in_images_and_markdown_are_inert(
         "<div><p>Seat the valve &lol9; firmly.</p></div>\n",
         encoding="utf-8",
     )
-    with _terminates(5):
+    with _terminates():
         measures, warnings = _profiled(capsys, lesson)
     assert (measures["figures"], measures["figures_unreadable"]) == (1, 1)
     assert measures["words"] < 30
@@ -583,7 +583,7 @@ def test_huge_image_header_is_measured_never_decoded(
     members[_media(members)] = header
     _rezip(docx_path, members)
     for path in (lesson, docx_path):
-        with _terminates(5):
+        with _terminates():
             measures, warnings = _profiled(capsys, path)
         assert (measures["figures"], measures["figures_unreadable"]) == (1, 0)
         assert measures["figure_pixel_area"] == pytest.approx(HUGE * HUGE / 1e6)  # megapixels
@@ -702,7 +702,7 @@ def test_read_time_limit(tmp_path: Path) -> None:
 def test_read_time_limit_end_to_end(capsys: pytest.CaptureFixture[str], tmp_path: Path) -> None:
     path = tmp_path / "stuck.md"
     path.write_text(LESSON, encoding="utf-8")
-    with _terminates(5):
+    with _terminates():
         status = main(["profile", str(path), "--limit", "max_read_seconds=0.2"])
     assert status == 2
     err = capsys.readouterr().err.strip().splitlines()
@@ -884,7 +884,7 @@ def test_output_refuses_links_to_an_input(
         assert lesson.read_bytes() == before
     fifo = tmp_path / "pipe.json"
     os.mkfifo(fifo)
-    with _terminates(5):
+    with _terminates():
         status, _, err = _run(capsys, "profile", lesson, "-f", "json", "-o", fifo)
     assert status == 2
     assert "not a regular file" in err

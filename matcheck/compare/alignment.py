@@ -6,8 +6,10 @@ with two adjacent passages of the other (so a paragraph that one format splits a
 break, or that an editor split in two, still finds its counterpart). A pair gains its cosine
 minus :data:`PAIR_THRESHOLD`, so two passages are paired only when they are more alike than
 that. The programme runs inside a band around the diagonal, wide enough for large insertions
-and removals, so time and memory grow linearly with the length of the lesson; passages that
-leave the band are found again as *moved* by comparing the leftovers directly.
+and removals; its width stops growing at :data:`MAX_SHARE_BAND` passages, so time and memory
+grow linearly with the length of the lesson. Passages that leave the band are found again as
+*moved* by comparing the leftovers directly. The programme works on one band row at a time
+with numpy (see :func:`_programme`), doing the same float64 operations as a loop over cells.
 
 Thresholds (judgment calls, documented in docs/comparison.md): a pair whose cosine is below
 :data:`STRONG` is a *rewritten* passage; leftovers whose best counterpart elsewhere reaches
@@ -17,7 +19,7 @@ Thresholds (judgment calls, documented in docs/comparison.md): a pair whose cosi
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
@@ -35,6 +37,9 @@ MERGE_GAIN = 0.1
 ABSORB_GAIN = 0.02
 MIN_BAND = 60
 BAND_SHARE = 0.2
+# The share stops growing here (in passages, about 140k words at 20%), so very long lessons
+# cost linear time and memory. Judgment call: a drift of 400 passages is a very large edit.
+MAX_SHARE_BAND = 400
 _CHUNK = 128
 
 
@@ -82,16 +87,26 @@ class _Banded:
                 a, b = int(self.low[i]), int(self.high[i]) + 1
                 self.rows.append(block[offset, a - lo : b - lo])
 
-    def dot(self, i: int, j: int) -> float:
-        low = int(self.low[i])
-        row = self.rows[i]
-        k = j - low
-        if 0 <= k < row.shape[0]:
-            return float(row[k])
-        return 0.0
+    def dots(self, i: int, columns: np.ndarray) -> np.ndarray:
+        """``A[i] · B[j]`` for each ``j`` in ``columns`` (0 outside the band, as for no overlap)."""
+        import numpy as np
 
-    def in_band(self, i: int, j: int) -> bool:
-        return int(self.low[i]) <= j <= int(self.high[i])
+        row = self.rows[i]
+        if not row.shape[0]:
+            return np.zeros(columns.shape[0])
+        k = columns - int(self.low[i])
+        inside = (k >= 0) & (k < row.shape[0])
+        values: np.ndarray = np.where(inside, row[np.clip(k, 0, row.shape[0] - 1)], 0.0)
+        return values
+
+    def in_band(self, i: int, columns: np.ndarray) -> np.ndarray:
+        inside: np.ndarray = (columns >= self.low[i]) & (columns <= self.high[i])
+        return inside
+
+
+def _band_width(n: int, m: int) -> int:
+    share = min(math.ceil(BAND_SHARE * max(n, m)), MAX_SHARE_BAND)
+    return max(MIN_BAND, share, abs(n - m) + MIN_BAND // 2)
 
 
 def _squared_norms(matrix: csr_matrix) -> np.ndarray:
@@ -108,6 +123,196 @@ def _adjacent_dots(matrix: csr_matrix) -> np.ndarray:
     return np.asarray(matrix[:-1].multiply(matrix[1:]).sum(axis=1)).ravel()
 
 
+class _Similarity:
+    """Cosines of the three pairing moves, a whole band row at a time.
+
+    Each is ``dot / sqrt(|a|² |b|²)`` in float64, the same operations in the same order as a
+    cell-by-cell loop, so the programme's results do not depend on the vectorisation. Passages
+    without content words (squared norm 0) are compared by their plain text instead.
+    """
+
+    def __init__(
+        self,
+        band: _Banded,
+        left: csr_matrix,
+        right: csr_matrix,
+        plain_a: list[str],
+        plain_b: list[str],
+    ) -> None:
+
+        self.band, self.plain_a, self.plain_b = band, plain_a, plain_b
+        self.norm_a, self.norm_b = _squared_norms(left), _squared_norms(right)
+        self.next_a = _adjacent_dots(left)
+        next_b = _adjacent_dots(right)
+        # |b[j] + b[j+1]|² = |b[j]|² + |b[j+1]|² + 2 b[j]·b[j+1]
+        self.pair_b = self.norm_b[:-1] + self.norm_b[1:] + 2 * next_b
+        self.empty_b = self.norm_b <= 0
+        self.empty_pair_b = self.pair_b <= 0
+        self._one_one: dict[int, np.ndarray] = {}
+
+    def _cosine(
+        self,
+        dot: np.ndarray,
+        sq_a: float,
+        sq_b: np.ndarray,
+        empty_b: np.ndarray,
+        text_a: str,
+        columns: np.ndarray,
+        text_b: Callable[[int], str],
+    ) -> np.ndarray:
+        import numpy as np
+
+        with np.errstate(divide="ignore", invalid="ignore"):
+            sim = dot / np.sqrt(sq_a * sq_b)
+        # Texts are built only where needed: few passages lack content words.
+        fallback = np.flatnonzero(empty_b) if sq_a > 0 else np.arange(sim.shape[0])
+        for k in fallback.tolist():
+            sim[k] = 1.0 if text_a == text_b(int(columns[k])) else 0.0
+        return np.asarray(sim, dtype=np.float64)
+
+    def one_one(self, i: int, columns: np.ndarray) -> np.ndarray:
+        """cos(a[i], b[j]) for ``j`` in ``columns``, all inside row ``i``'s band."""
+        import numpy as np
+
+        cached = self._one_one.get(i)
+        if cached is None:
+            low, high = int(self.band.low[i]), int(self.band.high[i])
+            every = np.arange(low, min(high, len(self.plain_b) - 1) + 1)
+            cached = self._cosine(
+                self.band.dots(i, every),
+                float(self.norm_a[i]),
+                self.norm_b[every],
+                self.empty_b[every],
+                self.plain_a[i],
+                every,
+                self.plain_b.__getitem__,
+            )
+            self._one_one[i] = cached
+            self._one_one.pop(i - 3, None)  # the programme looks back two rows at most
+        values: np.ndarray = cached[columns - int(self.band.low[i])]
+        return values
+
+    def two_one(self, i: int, columns: np.ndarray) -> np.ndarray:
+        """cos(a[i] + a[i+1], b[j]) for ``j`` in ``columns``."""
+        sq = self.norm_a[i] + self.norm_a[i + 1] + 2 * self.next_a[i]
+        dot = self.band.dots(i, columns) + self.band.dots(i + 1, columns)
+        text = self.plain_a[i] + " " + self.plain_a[i + 1]
+        return self._cosine(
+            dot,
+            float(sq),
+            self.norm_b[columns],
+            self.empty_b[columns],
+            text,
+            columns,
+            self.plain_b.__getitem__,
+        )
+
+    def one_two(self, i: int, columns: np.ndarray) -> np.ndarray:
+        """cos(a[i], b[j] + b[j+1]) for ``j`` in ``columns``."""
+        dot = self.band.dots(i, columns) + self.band.dots(i, columns + 1)
+        return self._cosine(
+            dot,
+            float(self.norm_a[i]),
+            self.pair_b[columns],
+            self.empty_pair_b[columns],
+            self.plain_a[i],
+            columns,
+            lambda j: self.plain_b[j] + " " + self.plain_b[j + 1],
+        )
+
+
+# Moves of the programme, as stored per cell: how many passages of A and B each consumes.
+_NONE, _UP, _LEFT, _ONE_ONE, _TWO_ONE, _ONE_TWO = range(6)
+_STEPS = {_UP: (1, 0), _LEFT: (0, 1), _ONE_ONE: (1, 1), _TWO_ONE: (2, 1), _ONE_TWO: (1, 2)}
+
+
+@dataclass(frozen=True, slots=True)
+class _Row:
+    low: int
+    score: np.ndarray
+    move: np.ndarray
+    similarity: np.ndarray
+
+    def at(self, columns: np.ndarray) -> np.ndarray:
+        """Scores at ``columns``; -inf outside the row, where no cell was computed."""
+        import numpy as np
+
+        k = columns - self.low
+        inside = (k >= 0) & (k < self.score.shape[0])
+        clipped = np.clip(k, 0, max(self.score.shape[0] - 1, 0))
+        return np.where(inside, self.score[clipped], -np.inf)
+
+
+def _programme(band: _Banded, sims: _Similarity, n: int) -> list[_Row]:
+    """The banded dynamic programme, one row of cells at a time.
+
+    Cell ``(i, j)`` holds the best score aligning ``a[:i]`` with ``b[:j]``. Skipping a passage
+    of B gains nothing, so along a row the score is a running maximum of what the other moves
+    reach; ties go to the first move in the order up, left, 1-1, 2-1, 1-2.
+    """
+    import numpy as np
+
+    neg = -np.inf
+    rows: list[_Row] = []
+    for i in range(n + 1):
+        lo, hi = int(band.low[i]), int(band.high[i])
+        j = np.arange(lo, hi + 1)
+        size = j.shape[0]
+        up = rows[i - 1].at(j) if i > 0 else np.full(size, neg)
+        if i == 0:
+            up = np.where(j == 0, 0.0, neg)  # the empty alignment
+        one_one = np.full(size, neg)
+        two_one = np.full(size, neg)
+        one_two = np.full(size, neg)
+        sim11 = np.zeros(size)
+        sim21 = np.zeros(size)
+        sim12 = np.zeros(size)
+        if i > 0:
+            ok = (j > 0) & band.in_band(i - 1, j - 1)
+            if ok.any():
+                cols = j[ok] - 1
+                sim = sims.one_one(i - 1, cols)
+                sim11[ok] = sim
+                gain = rows[i - 1].at(cols) + sim - PAIR_THRESHOLD
+                one_one[ok] = np.where(sim > PAIR_THRESHOLD, gain, neg)
+        if i > 1:
+            ok = (j > 0) & band.in_band(i - 2, j - 1) & band.in_band(i - 1, j - 1)
+            if ok.any():
+                cols = j[ok] - 1
+                sim = sims.two_one(i - 2, cols)
+                sim21[ok] = sim
+                alone = np.maximum(sims.one_one(i - 2, cols), sims.one_one(i - 1, cols))
+                gain = rows[i - 2].at(cols) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
+                allowed = (sim > PAIR_THRESHOLD) & (sim >= alone + MERGE_GAIN)
+                two_one[ok] = np.where(allowed, gain, neg)
+        if i > 0:
+            ok = (j > 1) & band.in_band(i - 1, j - 2) & band.in_band(i - 1, j - 1)
+            if ok.any():
+                cols = j[ok] - 2
+                sim = sims.one_two(i - 1, cols)
+                sim12[ok] = sim
+                alone = np.maximum(sims.one_one(i - 1, cols), sims.one_one(i - 1, cols + 1))
+                gain = rows[i - 1].at(cols) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
+                allowed = (sim > PAIR_THRESHOLD) & (sim >= alone + MERGE_GAIN)
+                one_two[ok] = np.where(allowed, gain, neg)
+        best = np.maximum.accumulate(
+            np.maximum(np.maximum(up, one_one), np.maximum(two_one, one_two))
+        )
+        left = np.concatenate(([neg], best[:-1]))
+        move = np.select(
+            [best == neg, up == best, left == best, one_one == best, two_one == best],
+            [_NONE, _UP, _LEFT, _ONE_ONE, _TWO_ONE],
+            _ONE_TWO,
+        ).astype(np.int8)
+        if i == 0:
+            move[j == 0] = _NONE
+        similarity = np.select(
+            [move == _ONE_ONE, move == _TWO_ONE, move == _ONE_TWO], [sim11, sim21, sim12], 0.0
+        )
+        rows.append(_Row(lo, best, move, similarity))
+    return rows
+
+
 def align(
     left: csr_matrix,
     right: csr_matrix,
@@ -120,72 +325,20 @@ def align(
     content words at all are compared by their text.
     """
     n, m = left.shape[0], right.shape[0]
-    width = max(MIN_BAND, math.ceil(BAND_SHARE * max(n, m)), abs(n - m) + MIN_BAND // 2)
-    band = _Banded(left, right, width)
-    norm_a, norm_b = _squared_norms(left), _squared_norms(right)
-    next_a, next_b = _adjacent_dots(left), _adjacent_dots(right)
+    band = _Banded(left, right, _band_width(n, m))
     plain_a = [" ".join(text.lower().split()) for text in left_texts]
     plain_b = [" ".join(text.lower().split()) for text in right_texts]
-
-    def cosine(dot: float, sq_a: float, sq_b: float, text_a: str, text_b: str) -> float:
-        if sq_a <= 0 or sq_b <= 0:
-            return 1.0 if text_a == text_b else 0.0
-        return dot / math.sqrt(sq_a * sq_b)
-
-    def one_one(i: int, j: int) -> float:
-        return cosine(band.dot(i, j), norm_a[i], norm_b[j], plain_a[i], plain_b[j])
-
-    def two_one(i: int, j: int) -> float:  # a[i] + a[i+1] against b[j]
-        sq = norm_a[i] + norm_a[i + 1] + 2 * next_a[i]
-        dot = band.dot(i, j) + band.dot(i + 1, j)
-        return cosine(dot, sq, norm_b[j], plain_a[i] + " " + plain_a[i + 1], plain_b[j])
-
-    def one_two(i: int, j: int) -> float:  # a[i] against b[j] + b[j+1]
-        sq = norm_b[j] + norm_b[j + 1] + 2 * next_b[j]
-        dot = band.dot(i, j) + band.dot(i, j + 1)
-        return cosine(dot, norm_a[i], sq, plain_a[i], plain_b[j] + " " + plain_b[j + 1])
-
-    # score[(i, j)]: best score aligning a[:i] with b[:j]; move[(i, j)] how it was reached.
-    score: dict[tuple[int, int], float] = {(0, 0): 0.0}
-    move: dict[tuple[int, int], tuple[int, int, float]] = {}
-    neg = -math.inf
-    for i in range(n + 1):
-        lo, hi = int(band.low[i]), int(band.high[i])
-        for j in range(lo, hi + 1):
-            if i == 0 and j == 0:
-                continue
-            best, how = neg, (0, 0, 0.0)
-            if i > 0 and score.get((i - 1, j), neg) > best:
-                best, how = score[(i - 1, j)], (1, 0, 0.0)
-            if j > 0 and score.get((i, j - 1), neg) > best:
-                best, how = score[(i, j - 1)], (0, 1, 0.0)
-            if i > 0 and j > 0 and band.in_band(i - 1, j - 1):
-                sim = one_one(i - 1, j - 1)
-                gain = score.get((i - 1, j - 1), neg) + sim - PAIR_THRESHOLD
-                if sim > PAIR_THRESHOLD and gain > best:
-                    best, how = gain, (1, 1, sim)
-            if i > 1 and j > 0 and band.in_band(i - 2, j - 1) and band.in_band(i - 1, j - 1):
-                sim = two_one(i - 2, j - 1)
-                alone = max(one_one(i - 2, j - 1), one_one(i - 1, j - 1))
-                gain = score.get((i - 2, j - 1), neg) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
-                if sim > PAIR_THRESHOLD and sim >= alone + MERGE_GAIN and gain > best:
-                    best, how = gain, (2, 1, sim)
-            if i > 0 and j > 1 and band.in_band(i - 1, j - 2) and band.in_band(i - 1, j - 1):
-                sim = one_two(i - 1, j - 2)
-                alone = max(one_one(i - 1, j - 2), one_one(i - 1, j - 1))
-                gain = score.get((i - 1, j - 2), neg) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
-                if sim > PAIR_THRESHOLD and sim >= alone + MERGE_GAIN and gain > best:
-                    best, how = gain, (1, 2, sim)
-            if best > neg:
-                score[(i, j)] = best
-                move[(i, j)] = how
+    rows = _programme(band, _Similarity(band, left, right, plain_a, plain_b), n)
     pairs: list[Pair] = []
     removed: list[int] = []
     added: list[int] = []
     i, j = n, m
     while i > 0 or j > 0:
-        di, dj, sim = move[(i, j)]
+        row = rows[i]
+        code = int(row.move[j - row.low])
+        di, dj = _STEPS[code]
         if di and dj:
+            sim = float(row.similarity[j - row.low])
             pairs.append(Pair(tuple(range(i - di, i)), tuple(range(j - dj, j)), sim))
         elif di:
             removed.append(i - 1)
@@ -227,6 +380,12 @@ def _absorb(
     grown: list[Pair] = []
     for pair in pairs:
         rows_a, rows_b = list(pair.left), list(pair.right)
+        if not (
+            {min(rows_a) - 1, max(rows_a) + 1} & left_over
+            or {min(rows_b) - 1, max(rows_b) + 1} & right_over
+        ):
+            grown.append(pair)  # no leftover beside it: nothing to absorb
+            continue
         va, vb = vector(left, rows_a), vector(right, rows_b)
         similarity = pair.similarity
         changed = True

@@ -13,7 +13,6 @@ from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     from spacy.language import Language
-    from spacy.lookups import Table
 
 
 @cache
@@ -29,17 +28,27 @@ def nlp() -> Language:
 
 
 @cache
-def _lemma_table() -> Table:
-    """Lower-case word -> lemma, from spaCy's English lookup lemmatizer data."""
-    from spacy.lookups import load_lookups
+def _lemma_table() -> dict[str, str]:
+    """Lower-case word -> lemma, from spaCy's English lookup lemmatizer data.
 
-    return load_lookups("en", ["lemma_lookup"], strict=True).get_table("lemma_lookup")
+    The same file ``spacy.lookups.load_lookups("en", ["lemma_lookup"])`` reads, found through
+    the same registry, kept as a plain dict: building spaCy's hashed ``Table`` from it took
+    three quarters of the load time (about 0.07 s of 0.09 s) and looks words up no better.
+    """
+    from spacy.util import load_language_data, registry
+
+    if "en" not in registry.lookups:
+        raise ValueError("spacy-lookups-data is not installed: no English lemma table")
+    table = load_language_data(registry.lookups.get("en")["lemma_lookup"])
+    if not isinstance(table, dict):
+        raise ValueError("the English lemma table of spacy-lookups-data is not a mapping")
+    return {str(word): str(base) for word, base in table.items()}
 
 
 @cache
 def lemma(lower: str) -> str:
     """The lemma of a lower-case word (the word itself when the table does not know it)."""
-    return str(_lemma_table().get(lower, lower))
+    return _lemma_table().get(lower, lower)
 
 
 @cache

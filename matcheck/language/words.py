@@ -12,8 +12,11 @@ import re
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-_RUN = re.compile(r"\S+")
-_EDGE = re.compile(r"^[^\w]+|[^\w]+$")
+# From the first to the last word character of a run of non-white-space: the run with the
+# punctuation around it stripped. \S* is greedy, so one match spans its whole run.
+_STRIPPED_RUN = re.compile(r"\w(?:\S*\w)?")
+# A letter or digit: \w less the underscore (the same test as str.isalnum).
+_ALNUM = re.compile(r"[^\W_]")
 
 
 @dataclass(frozen=True, slots=True)
@@ -30,16 +33,10 @@ class Word:
 
 
 def iter_words(text: str) -> Iterator[Word]:
-    for match in _RUN.finditer(text):
-        run = match.group()
-        if not any(char.isalnum() for char in run):
-            continue
-        stripped = _EDGE.sub("", run)
-        if not stripped:
-            continue
-        offset = run.find(stripped)
-        start = match.start() + offset
-        yield Word(stripped, start, start + len(stripped))
+    for match in _STRIPPED_RUN.finditer(text):
+        stripped = match.group()
+        if _ALNUM.search(stripped) is not None:  # "___" is no word
+            yield Word(stripped, match.start(), match.end())
 
 
 def letters(word: str) -> int:

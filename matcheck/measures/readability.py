@@ -64,6 +64,20 @@ def count_prose(analysis: Analysis) -> ProseCounts:
     from matcheck.language.wordlists import is_familiar
     from matcheck.language.words import letters, strokes
 
+    # The per-word counts depend only on the word's text and whether it opens its sentence;
+    # a lesson repeats its words, so each distinct one is counted once.
+    known: dict[tuple[str, bool], tuple[int, bool, int, int, bool]] = {}
+
+    def word_counts(text: str, lower: str, initial: bool) -> tuple[int, bool, int, int, bool]:
+        count = count_syllables(text)
+        return (
+            count,
+            is_fog_hard_word(text, count, sentence_initial=initial),
+            letters(text),
+            strokes(text),
+            not is_familiar(lower, lemma(lower)),
+        )
+
     syllables = polysyllables = hard = letter_count = stroke_count = long_words = rare = 0
     tokens: list[str] = []
     lengths: list[int] = []
@@ -71,15 +85,18 @@ def count_prose(analysis: Analysis) -> ProseCounts:
         lengths.append(len(sentence))
         for position, word in enumerate(sentence):
             lower = word.lower
-            count = count_syllables(word.text)
+            key = (word.text, position == 0)
+            counts = known.get(key)
+            if counts is None:
+                counts = known[key] = word_counts(word.text, lower, position == 0)
+            count, is_hard, n_letters, n_strokes, unfamiliar = counts
             syllables += count
             polysyllables += count >= 3
-            hard += is_fog_hard_word(word.text, count, sentence_initial=position == 0)
-            n_letters = letters(word.text)
+            hard += is_hard
             letter_count += n_letters
-            stroke_count += strokes(word.text)
+            stroke_count += n_strokes
             long_words += n_letters > 6
-            rare += not is_familiar(lower, lemma(lower))
+            rare += unfamiliar
             tokens.append(lower)
     return ProseCounts(
         words=len(tokens),
