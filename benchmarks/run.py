@@ -132,9 +132,50 @@ def run_help(options: argparse.Namespace, work: Path) -> Section:
     )
 
 
-# A new section (many studies with --jobs, say) is a function of (options, work) -> Section.
+STUDIES = 20
+CONDITIONS = 4  # a 2x2 design's worth of versions per study
+STUDY_WORDS = 3000
+JOBS_SPEEDUP = 1.6
+
+
+def run_studies(options: argparse.Namespace, work: Path) -> Section:
+    """``matcheck check DIR`` on 20 four-condition studies with one worker and with two."""
+    folder = work / "studies"
+    for index in range(STUDIES):
+        study = folder / f"study-{index:02d}"
+        lines = [f'[study]\ntitle = "Study {index}"\n']
+        for pair in range(CONDITIONS // 2):
+            a, b = write_pair(STUDY_WORDS + 50 * index, "md", study / f"pair-{pair}")
+            for path in (a, b):
+                name = f"{pair}-{path.stem}"
+                relative = path.relative_to(study).as_posix()
+                lines.append(f'[[conditions]]\nname = "{name}"\nfiles = ["{relative}"]\n')
+        (study / "study.toml").write_text("\n".join(lines), encoding="utf-8")
+    command = [PYTHON, "-m", "matcheck", "check", str(folder), "-f", "json", "-o"]
+    one = measure([*command, str(work / "one.json"), "--jobs", "1"], options.repeat)
+    two = measure([*command, str(work / "two.json"), "--jobs", "2"], options.repeat)
+    speedup = one.seconds / two.seconds
+    return Section(
+        [{"studies": STUDIES, "jobs_1": asdict(one), "jobs_2": asdict(two), "speedup": speedup}],
+        [
+            f"check DIR, {STUDIES} studies of {CONDITIONS} versions of ~{STUDY_WORDS:,} words "
+            "(Markdown):",
+            f"  --jobs 1: {one.seconds:.2f} s, {one.peak_mib:.0f} MiB peak",
+            f"  --jobs 2: {two.seconds:.2f} s, {two.peak_mib:.0f} MiB peak (largest process)",
+        ],
+        [
+            check(
+                speedup >= JOBS_SPEEDUP,
+                f"check DIR with 2 workers: {speedup:.2f}x faster than 1 (>= {JOBS_SPEEDUP})",
+            )
+        ],
+    )
+
+
+# A new section is a function of (options, work) -> Section, and one entry here.
 SECTIONS: dict[str, Callable[[argparse.Namespace, Path], Section]] = {
     "pairs": run_pairs,
+    "studies": run_studies,
     "help": run_help,
 }
 

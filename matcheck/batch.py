@@ -73,6 +73,22 @@ def check_one(
     return StudyResult(path, report, None)
 
 
+def warm_up() -> None:
+    """Import and load what every check needs (pipeline, lemma and syllable tables, ...)."""
+    import scipy.special  # noqa: F401
+    import sklearn.feature_extraction.text  # noqa: F401
+
+    from matcheck.language.pipeline import lemma, nlp, stop_words
+    from matcheck.language.syllables import count_syllables
+    from matcheck.language.wordlists import dale_chall_familiar
+
+    nlp()("Warm up.")
+    lemma("warming")
+    stop_words()
+    count_syllables("warming")
+    dale_chall_familiar()
+
+
 def check_all(
     paths: Sequence[Path],
     *,
@@ -89,7 +105,15 @@ def check_all(
     if workers == 1 or len(paths) == 1:
         return [check_one(path, against, tolerances, limits) for path in paths]
     results: dict[Path, StudyResult] = {}
-    with ProcessPoolExecutor(max_workers=min(workers, len(paths))) as pool:
+    import multiprocessing
+
+    context = None
+    if "fork" in multiprocessing.get_all_start_methods():
+        # Load the language data and libraries once here: forked workers share them instead
+        # of each paying the second or so it takes.
+        warm_up()
+        context = multiprocessing.get_context("fork")
+    with ProcessPoolExecutor(max_workers=min(workers, len(paths)), mp_context=context) as pool:
         futures = [pool.submit(check_one, path, against, tolerances, limits) for path in paths]
         if progress:
             from rich.progress import Progress

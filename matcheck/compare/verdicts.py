@@ -60,15 +60,14 @@ def decide_mean(
     if a.size < 2 or b.size < 2 or (float(a.var()) == 0.0 and float(b.var()) == 0.0):
         status = Status.MATCHED if abs(difference) <= bound else Status.DIFFERS
         return status, "too few or constant sentence lengths: compared as they are", None
-    from scipy import stats
-    from statsmodels.stats.weightstats import ttost_ind
+    from matcheck.compare.stats import tost_welch_p, welch_p
 
     if abs(difference) <= bound:
-        p_tost = float(ttost_ind(b, a, -bound, bound, usevar="unequal")[0])
+        p_tost = tost_welch_p(a.tolist(), b.tolist(), -bound, bound)
         test = StatTest("TOST (Welch)", p_tost, f"equivalence bounds ±{bound:.2f} words")
         reason = "within tolerance" + (" (equivalent by TOST)" if p_tost < ALPHA else "")
         return Status.MATCHED, reason, test
-    p_diff = float(stats.ttest_ind(b, a, equal_var=False).pvalue)
+    p_diff = welch_p(a.tolist(), b.tolist())
     test = StatTest("Welch t-test", p_diff, f"difference {difference:+.2f} words")
     if p_diff < ALPHA:
         return Status.DIFFERS, "beyond tolerance: a possible confound", test
@@ -93,7 +92,7 @@ def decide_sections(
     at α = .05 divided by the number of sections tested (Bonferroni), so that testing many
     sections does not raise false alarms. Returns the largest such shift, or ``None``.
     """
-    from scipy import stats
+    from matcheck.compare.stats import welch_p
 
     def by_section(measurement: Measurement) -> dict[str, list[float]]:
         groups: dict[str, list[float]] = {}
@@ -118,7 +117,9 @@ def decide_sections(
             continue
         if sorted(a[section]) == sorted(b[section]):
             continue
-        p_value = float(stats.ttest_ind(b[section], a[section], equal_var=False).pvalue)
+        if len(set(a[section])) < 2 and len(set(b[section])) < 2:
+            continue  # constant lengths in both: no variance to test against
+        p_value = welch_p(a[section], b[section])
         if p_value < alpha and (worst is None or abs(mean_b - mean_a) > worst[0]):
             worst = (abs(mean_b - mean_a), section, mean_a, mean_b, p_value)
     if worst is None:
