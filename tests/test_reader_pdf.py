@@ -631,7 +631,7 @@ def test_demo_fixture_matches_its_construction(version: str) -> None:
     assert len(items) == counts["list_items"]
     assert len({item.group for item in items}) == counts["lists"]
     # The fixture's word rule: runs of non-space with a letter or digit, captions left out.
-    # The table has no structure in a PDF, but its cell text is there as paragraph text.
+    # Table cells count as words too (see test_demo_table_matches_the_docx_version).
     words = [
         word
         for block in document.blocks
@@ -662,3 +662,243 @@ def test_demo_fixture_matches_its_construction(version: str) -> None:
         assert figure.alt_text == want["alt_text"]
         assert figure.location.section == want["section"]
     assert len(document.blocks_of(BlockKind.CAPTION)) == counts["captions"]
+
+
+# -- tables -------------------------------------------------------------------------------------
+# The tables are drawn cell by cell with fpdf2, so every cell's text and place is known by
+# construction; the detection rules they exercise (column alignment, gaps wider than 1 em)
+# are common practice for PDF layout analysis.
+
+TEA_TABLE = [
+    ("Tea", "Water", "Steep"),
+    ("Green", "80 \u00b0C", "2 minutes"),
+    ("Black", "95 \u00b0C", "4 minutes"),
+]
+NETWORK_TABLE = [
+    ("Device", "Cable", "Top speed"),
+    ("Laptop", "Cat 6 patch cord", "1 Gbit/s"),
+    ("Printer", "Cat 5e patch cord", "100 Mbit/s"),
+    ("Games console", "Cat 6 patch cord", "1 Gbit/s"),
+]
+JUSTIFIED = [
+    "A home router joins the devices of a household into one network and passes their "
+    "traffic to the internet through the modem. Most routers also run a wireless access "
+    "point, a small firewall and a service that hands out addresses to every new device.",
+    "Place the router high up and near the middle of the home, away from thick walls, "
+    "metal shelves and microwave ovens, because all of these weaken the radio signal "
+    "long before it reaches the rooms at the far end of the house.",
+]
+
+
+def _cell_table(
+    pdf: Any,
+    rows: list[tuple[str, ...]],
+    widths: tuple[float, ...],
+    *,
+    border: bool,
+    header: str = "",
+    shaded: bool = False,
+) -> None:
+    """Draw ``rows`` with one fpdf2 cell() per cell, the first row in ``header`` style."""
+    pdf.set_fill_color(220, 220, 220)
+    for index, row in enumerate(rows):
+        pdf.set_font("Helvetica", header if index == 0 else "", BODY)
+        for text, width in zip(row, widths, strict=True):
+            pdf.cell(width, 7, text, border=1 if border else 0, fill=shaded and index == 0)
+        pdf.ln(7)
+
+
+def _cells(document: Document) -> list[list[str]]:
+    """The texts of each table's cells, tables in order of their group."""
+    tables: dict[int | None, list[str]] = {}
+    for block in document.blocks_of(BlockKind.TABLE_CELL):
+        tables.setdefault(block.group, []).append(block.text)
+    return list(tables.values())
+
+
+def _flat(rows: list[tuple[str, ...]]) -> list[str]:
+    return [cell for row in rows for cell in row if cell]
+
+
+def _read_built(pdf: Any, tmp_path: Path, name: str = "tables.pdf") -> Document:
+    path = tmp_path / name
+    pdf.output(str(path))
+    return read_pdf(path, DEFAULT_LIMITS)
+
+
+@pytest.mark.parametrize(
+    ("rows", "widths", "border", "header", "shaded"),
+    [
+        (TEA_TABLE, (40.0, 30.0, 40.0), True, "B", False),
+        (TEA_TABLE, (40.0, 30.0, 40.0), False, "", True),
+        (NETWORK_TABLE, (45.0, 50.0, 35.0), True, "", True),
+        (NETWORK_TABLE, (45.0, 50.0, 35.0), False, "B", False),
+    ],
+)
+def test_table_drawn_with_cells_gives_table_cells(
+    tmp_path: Path,
+    rows: list[tuple[str, ...]],
+    widths: tuple[float, ...],
+    border: bool,
+    header: str,
+    shaded: bool,
+) -> None:
+    pdf = _new_pdf(running=False)
+    _lines(pdf, ["Each kind of tea wants its own water temperature and time."])
+    pdf.ln(4)
+    _cell_table(pdf, rows, widths, border=border, header=header, shaded=shaded)
+    pdf.ln(4)
+    _lines(pdf, ["Taste the tea after the shortest time and steep longer if needed."])
+    document = _read_built(pdf, tmp_path)
+    # By construction: one table, its cells row by row, left to right.
+    assert _cells(document) == [_flat(rows)]
+    assert _kinds(document, BlockKind.PARAGRAPH) == [
+        "Each kind of tea wants its own water temperature and time.",
+        "Taste the tea after the shortest time and steep longer if needed.",
+    ]
+    if header == "B":
+        header_cells = document.blocks_of(BlockKind.TABLE_CELL)[: len(rows[0])]
+        assert all(
+            [(s.start, s.end, s.kind) for s in b.emphasis] == [(0, len(b.text), Emphasis.BOLD)]
+            for b in header_cells
+        )
+
+
+def test_empty_cell_is_left_out_and_the_row_still_counts(tmp_path: Path) -> None:
+    rows = [*NETWORK_TABLE[:2], ("Printer", "", "100 Mbit/s"), NETWORK_TABLE[3]]
+    pdf = _new_pdf(running=False)
+    _cell_table(pdf, rows, (45.0, 50.0, 35.0), border=True, header="B")
+    document = _read_built(pdf, tmp_path)
+    # The brief's convention: one block per non-empty cell.
+    assert _cells(document) == [_flat(rows)]
+    assert len(_flat(rows)) == 11
+
+
+@pytest.mark.parametrize("v_align", ["TOP", "MIDDLE"])
+def test_cell_text_wrapped_over_two_lines_is_one_cell(tmp_path: Path, v_align: str) -> None:
+    long = "Loosen the axle nuts with a fifteen millimetre spanner and lift the wheel out"
+    rows = [
+        ("Step", "Tool", "What to do"),
+        ("Remove the rear wheel", "Spanner", long),
+        ("Check", "Fingers", "Feel inside the tyre"),
+    ]
+    pdf = _new_pdf(running=False)
+    pdf.set_font("Helvetica", "", BODY)
+    # Column widths in mm: the second row's first and last cells need two lines each.
+    with pdf.table(
+        col_widths=(30, 30, 80), width=140, align="LEFT", line_height=LINE_MM, v_align=v_align
+    ) as table:
+        for cells in rows:
+            row = table.row()
+            for text in cells:
+                row.cell(text)
+    document = _read_built(pdf, tmp_path)
+    assert pdf.get_string_width(long) > 80 and pdf.get_string_width(rows[1][0]) > 30
+    assert _cells(document) == [_flat(rows)]
+
+
+def test_two_tables_on_one_page_are_two_groups(tmp_path: Path) -> None:
+    pdf = _new_pdf(running=False)
+    _cell_table(pdf, TEA_TABLE, (40.0, 30.0, 40.0), border=True, header="B")
+    pdf.ln(4)
+    _lines(pdf, ["Wired devices get a faster and steadier connection than wireless ones."])
+    pdf.ln(4)
+    _cell_table(pdf, NETWORK_TABLE, (45.0, 50.0, 35.0), border=False, shaded=True)
+    document = _read_built(pdf, tmp_path)
+    assert _cells(document) == [_flat(TEA_TABLE), _flat(NETWORK_TABLE)]
+    groups = [block.group for block in document.blocks_of(BlockKind.TABLE_CELL)]
+    assert len(set(groups)) == 2 and None not in groups
+    assert document.pages == 1
+
+
+def test_table_split_by_a_page_break_is_one_table(tmp_path: Path) -> None:
+    pdf = _new_pdf()
+    _lines(pdf, ["Wired devices get a faster and steadier connection than wireless ones."])
+    pdf.ln(4)
+    _cell_table(pdf, NETWORK_TABLE[:3], (45.0, 50.0, 35.0), border=True, header="B")
+    pdf.add_page()
+    _cell_table(pdf, NETWORK_TABLE[3:], (45.0, 50.0, 35.0), border=True)
+    _cell_table(pdf, [("Tablet", "none (wireless)", "300 Mbit/s")], (45.0, 50.0, 35.0), border=True)
+    pdf.ln(4)
+    _lines(pdf, P5)
+    document = _read_built(pdf, tmp_path)
+    # By construction one table, continued at the top of page 2 in the same columns; the
+    # running header and footer of each page are left out around it.
+    assert _cells(document) == [[*_flat(NETWORK_TABLE), "Tablet", "none (wireless)", "300 Mbit/s"]]
+    assert document.pages == 2
+    assert _kinds(document, BlockKind.PARAGRAPH) == [
+        "Wired devices get a faster and steadier connection than wireless ones.",
+        *P5,
+    ]
+
+
+def test_justified_paragraphs_and_lists_are_not_tables(tmp_path: Path) -> None:
+    pdf = _new_pdf(running=False)
+    pdf.set_font("Helvetica", "", BODY)
+    for text in JUSTIFIED:
+        pdf.multi_cell(120, LINE_MM, text, align="J", new_x="LMARGIN", new_y="NEXT")
+        pdf.ln(4)
+    # The worst case for the gap rule: every word its own text object, spread to the width
+    # of a narrow column, so that word gaps grow past 1 em.
+    lines = pdf.multi_cell(60, LINE_MM, JUSTIFIED[0], dry_run=True, output="LINES")
+    stretch = 0.0
+    for number, line in enumerate(lines):
+        words = line.split()
+        widths = [pdf.get_string_width(word) for word in words]
+        last = number == len(lines) - 1
+        gap = pdf.get_string_width(" ") if last else (60 - sum(widths)) / (len(words) - 1)
+        stretch = max(stretch, gap / pdf.get_string_width(" "))
+        x = pdf.l_margin
+        for word, width in zip(words, widths, strict=True):
+            pdf.text(x, pdf.get_y() + 4, word)
+            x += width + gap
+        pdf.ln(LINE_MM)
+    pdf.ln(4)
+    # Bullets and numbers in a cell of their own 10 mm wide (a hanging indent as word
+    # processors set it, so the gap after "1." is over 1 em), and bullets typed before the text.
+    items = [("\u2022", LIST1[0]), ("\u2022", LIST1[1]), ("1.", LIST2[0]), ("2.", LIST2[1])]
+    for marker, text in items:
+        pdf.set_x(pdf.l_margin + 4)
+        pdf.cell(10, LINE_MM, marker)
+        pdf.cell(0, LINE_MM, text, new_x="LMARGIN", new_y="NEXT")
+    pdf.ln(4)
+    _lines(pdf, ["\u2022 " + LIST1[2], "\u2022 " + NESTED])
+    document = _read_built(pdf, tmp_path)
+    # By construction the widest word gap is over 1 em (Helvetica's space is 0.278 em, AFM).
+    assert stretch * 0.278 > 1.0, stretch
+    assert 10 - pdf.get_string_width("1.") > BODY * 25.4 / 72  # the gap after "1.": over 1 em
+    assert document.blocks_of(BlockKind.TABLE_CELL) == ()
+    assert _kinds(document, BlockKind.PARAGRAPH) == [*JUSTIFIED, JUSTIFIED[0]]
+    assert _kinds(document, BlockKind.LIST_ITEM) == [*(text for _, text in items), LIST1[2], NESTED]
+
+
+def test_text_width_uses_helvetica_metrics() -> None:
+    from fpdf import FPDF
+
+    from matcheck.readers.pdf_tables import text_width
+
+    # fpdf2 measures its core Helvetica with the same Adobe Core 14 AFM widths.
+    pdf = FPDF(unit="pt")
+    pdf.set_font("Helvetica", "", 11)
+    for text in ["Valve", "Mountain bikes, city bikes and cars", "1 Gbit/s"]:
+        assert text_width(text, 11, NO_EMPHASIS) == pytest.approx(pdf.get_string_width(text))
+
+
+@pytest.mark.parametrize(
+    "version", ["text-only", "diagrams", "diagrams-confounded", "text-plain", "diagrams-plain"]
+)
+def test_demo_table_matches_the_docx_version(version: str) -> None:
+    import json
+
+    from matcheck.readers import read
+
+    # fixtures/demo/expected.json: one 4x3 table of 12 cells, and the body paragraphs, which
+    # do not include the table; the DOCX version has the same table as a real Word table.
+    counts = json.loads((FIXTURES / "expected.json").read_text(encoding="utf-8"))["versions"]
+    pdf = read(FIXTURES / f"{version}.pdf")
+    docx = read(FIXTURES / f"{version}.docx")
+    cells = _cells(pdf)
+    assert cells == _cells(docx)
+    assert len(cells) == counts[version]["tables"]
+    assert sum(map(len, cells)) == counts[version]["table_cells"]
+    assert len(pdf.blocks_of(BlockKind.PARAGRAPH)) == counts[version]["paragraphs"]

@@ -57,8 +57,7 @@ READERS: dict[str, Reader] = {
 
 # What a format cannot show, so its measure is unknown rather than zero.
 UNDETECTED: dict[str, tuple[str, ...]] = {
-    # A PDF's text layer has no table structure; table text comes through as paragraphs.
-    "pdf": ("tables",),
+    # None now: PDF tables are inferred from text in aligned columns (pdf_tables.py) and count.
 }
 
 

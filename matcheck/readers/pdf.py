@@ -3,13 +3,15 @@
 A PDF stores positioned glyphs, not paragraphs, so the structure is inferred from the layout
 (see :mod:`matcheck.readers.pdf_layout` and :mod:`matcheck.readers.pdf_structure`): lines from
 baselines, paragraphs from vertical gaps and font-size changes, headings from font size, bold
-and italic from font names, list items from markers, captions from "Figure N" next to images.
+and italic from font names, list items from markers, captions from "Figure N" next to images,
+simple tables from text set in aligned columns (see :mod:`matcheck.readers.pdf_tables`).
 Running headers, footers and page numbers are left out and recorded in ``Document.excluded``.
 
 What this reader does not do, by design:
 
-- Tables are not detected: a PDF has no table structure, only text placed in a grid, so table
-  text comes through as paragraphs (one per cell row or cell, as the layout falls).
+- Only simple tables are found: a PDF has no table structure, only text placed in a grid, and
+  a table that does not fit the rules of :mod:`matcheck.readers.pdf_tables` (drawn column by
+  column, cells not aligned, ...) comes through as paragraphs.
 - Alt text comes only from a tagged PDF's structure tree (the /Alt of the element around the
   image, see :mod:`matcheck.readers.pdf_alt`); an untagged PDF's figures have no alt text.
 - Text is taken in content-stream order, which is reading order for PDFs written by word
@@ -31,6 +33,7 @@ from the CTM in force when they are drawn.
 from __future__ import annotations
 
 import io
+import itertools
 import logging
 import warnings
 from collections.abc import Iterator
@@ -258,12 +261,13 @@ def read_pdf(path: Path, limits: ReadLimits) -> Document:
     """
     from matcheck.readers.pdf_layout import (
         build_lines,
+        dominant_size,
         remove_running_images,
         remove_running_lines,
-        split_blocks,
         typical_leading,
     )
     from matcheck.readers.pdf_structure import classify
+    from matcheck.readers.pdf_tables import split_page
 
     shown = str(path)
     try:
@@ -282,7 +286,9 @@ def read_pdf(path: Path, limits: ReadLimits) -> Document:
     if remove_running_images(pages):
         builder.exclude("images repeated in running headers or footers (logos)")
     leading = typical_leading(lines)
-    blocks = [block for page_lines in lines for block in split_blocks(page_lines, leading)]
+    body = dominant_size(line for page_lines in lines for line in page_lines)
+    ids = itertools.count(1)
+    blocks = [block for page_lines in lines for block in split_page(page_lines, leading, body, ids)]
     pieces = classify(blocks, {content.number: content.images for content in pages})
     _emit(builder, pages, pieces)
     if not builder.blocks:

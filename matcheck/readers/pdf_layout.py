@@ -84,6 +84,8 @@ class RawBlock:
     lines: list[Line]
     # First block of its page or of a new column: a paragraph may go on from the block before.
     flow_start: bool
+    # A table cell: the table's number in the document (see pdf_tables), else None.
+    table: int | None = None
 
     @property
     def size(self) -> float:

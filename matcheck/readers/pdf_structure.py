@@ -1,4 +1,4 @@
-"""Give each PDF block its kind: heading, list item, caption or paragraph.
+"""Give each PDF block its kind: heading, list item, caption, table cell or paragraph.
 
 - Body size: the font size that carries the most characters.
 - Headings: a short block (at most 20 words, no final period) set at least 1.15 times the
@@ -13,6 +13,9 @@
   x among the list's marker positions, counting from the first item's.
 - Captions: "Figure N" / "Fig. N" / "Table N" just below an image on the page, or
   "Figure N:" / "Figure N." anywhere; the nearest image on the page gets the caption.
+- Table cells: the blocks :mod:`matcheck.readers.pdf_tables` made of a table's cells, one
+  group per table; a table that ends a page and one with the same columns that starts the
+  next page are one table.
 - Paragraph continuation: a block that ends without final punctuation at the bottom of a page
   (or column) and a block starting with a lowercase letter at the top of the next one are one
   paragraph.
@@ -30,6 +33,7 @@ from matcheck.model import BlockKind, Emphasis
 from matcheck.readers.builder import Run
 from matcheck.readers.pdf_layout import RawBlock, dominant_size, round_size
 from matcheck.readers.pdf_page import PlacedImage
+from matcheck.readers.pdf_tables import same_columns
 from matcheck.readers.pdf_text import (
     all_emphasised,
     ends_sentence,
@@ -160,7 +164,9 @@ def classify(blocks: list[RawBlock], images: dict[int, list[PlacedImage]]) -> li
         page_images = images.get(block.page, [])
         page_taken = taken.setdefault(block.page, set())
         is_caption, target = _caption_target(block, text, page_images, page_taken)
-        if size is not None and size in levels:
+        if block.table is not None:
+            pieces.append(Piece(BlockKind.TABLE_CELL, block))
+        elif size is not None and size in levels:
             pieces.append(Piece(BlockKind.HEADING, block, level=levels[size]))
         elif is_caption:
             pieces.append(Piece(BlockKind.CAPTION, block, caption_of=target))
@@ -173,6 +179,7 @@ def classify(blocks: list[RawBlock], images: dict[int, list[PlacedImage]]) -> li
     _bold_headings(pieces, body, min(len(heading_sizes) + 1, _MAX_LEVEL))
     pieces = _join_continued(pieces)
     _group_lists(pieces)
+    _group_tables(pieces)
     return pieces
 
 
@@ -242,3 +249,26 @@ def _group_lists(pieces: list[Piece]) -> None:
         else:
             close()
     close()
+
+
+def _group_tables(pieces: list[Piece]) -> None:
+    """One group per table, numbered after the lists' groups. A table that ends its page and
+    one that starts the next page with the same columns are one table the page break split."""
+    first = max((piece.group for piece in pieces if piece.group is not None), default=0)
+    starts: dict[int, list[float]] = {}
+    for piece in pieces:
+        if piece.block.table is not None:
+            starts.setdefault(piece.block.table, []).append(piece.block.lines[0].x)
+    continues: dict[int, int] = {}
+    for before, after in pairwise(pieces):
+        above, below = before.block.table, after.block.table
+        if (
+            above is not None
+            and below is not None
+            and after.page == before.page + 1
+            and same_columns(starts[above], starts[below])
+        ):
+            continues[below] = continues.get(above, above)
+    for piece in pieces:
+        if (table := piece.block.table) is not None:
+            piece.group = first + continues.get(table, table)
