@@ -104,8 +104,12 @@ def _coverage(model: ContentModel, source: str, target: str) -> Coverage:
 
     src = model.versions[source]
     weights = term_weights(model.normalized, src.rows, model.vocabulary)
+    # Coverage counts single terms: a bigram disappears whenever either neighbour changes
+    # ("wait thirty seconds" -> "wait half a minute" loses three), which is rewording, not
+    # content; the bigrams still weigh in the TF-IDF model and the passage alignment.
+    unigrams = ((term, weight) for term, weight in weights.items() if " " not in term)
     # The same as sorted(...)[:KEY_TERMS] (heapq documents it), without sorting every term.
-    key = heapq.nsmallest(KEY_TERMS, weights.items(), key=lambda item: (-item[1], item[0]))
+    key = heapq.nsmallest(KEY_TERMS, unigrams, key=lambda item: (-item[1], item[0]))
     total = sum(weight for _, weight in key)
     if not total:
         return Coverage(1.0, ())

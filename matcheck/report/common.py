@@ -69,7 +69,9 @@ def format_difference(finding: Finding, *, short: bool = False) -> str:
         return "—"
     if finding.group == "content":
         if finding.dimension == "key_term_coverage":
-            return f"{finding.difference * 100:.1f}% {'lost' if short else 'missing'}"
+            if short:
+                return f"−{finding.difference * 100:.1f}%" if finding.difference else "±0.0%"
+            return f"{finding.difference * 100:.1f}% missing"
         return f"{int(finding.difference)}"
     sign = "+" if finding.difference > 0 else "−" if finding.difference < 0 else "±"
     relative = finding.relative_difference
@@ -91,7 +93,8 @@ def format_tolerance(finding: Finding, *, short: bool = False) -> str:
     if finding.tolerance is None:
         return "—"
     if finding.dimension == "key_term_coverage":
-        return f"≥{(1 - finding.tolerance.absolute) * 100:g}% covered"
+        covered = f"≥{(1 - finding.tolerance.absolute) * 100:g}%"
+        return covered if short else f"{covered} covered"
     unit = "" if finding.unit == "share" or short else finding.unit
     if finding.unit == "share" and finding.tolerance.absolute:
         return f"±{finding.tolerance.absolute * 100:g} points"
