@@ -67,6 +67,28 @@ def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[st
     return [str(path) for path in paths]
 
 
+def _measure_versions(
+    versions: Sequence[Version], reference: str, settings: Settings, limits: ReadLimits
+) -> tuple[dict[str, Profile], list[Condition]]:
+    """Read and measure each version once; the conditions as the report names them."""
+    profiles: dict[str, Profile] = {}
+    conditions = []
+    for version in versions:
+        document = read_version(version, limits)
+        profiles[version.name] = profile_document(document, settings)
+        conditions.append(
+            Condition(
+                name=version.name,
+                paths=tuple(str(path) for path in version.paths),
+                format=document.format,
+                is_reference=version.name == reference,
+                warnings=document.warnings,
+                excluded=document.excluded,
+            )
+        )
+    return profiles, conditions
+
+
 def compare_versions(
     versions: Sequence[Version],
     *,
@@ -92,21 +114,7 @@ def compare_versions(
     # Validate options before the (slower) reading.
     expand_manipulated(manipulated)
     tolerances = parse_tolerances(tolerance_overrides, known_dimensions())
-    profiles: dict[str, Profile] = {}
-    conditions = []
-    for version in versions:
-        document = read_version(version, limits)
-        profiles[version.name] = profile_document(document, settings)
-        conditions.append(
-            Condition(
-                name=version.name,
-                paths=tuple(str(path) for path in version.paths),
-                format=document.format,
-                is_reference=version.name == reference,
-                warnings=document.warnings,
-                excluded=document.excluded,
-            )
-        )
+    profiles, conditions = _measure_versions(versions, reference, settings, limits)
     findings, spreads = compare_profiles(profiles, reference, manipulated, tolerances)
     return Report(
         conditions=tuple(conditions),
@@ -134,21 +142,8 @@ def check_study(
     if settings is None:
         settings = Settings(words_per_minute=study.reading_rate or DEFAULT_WPM)
     tolerances = parse_tolerances([*study.tolerances, *extra_tolerances], known_dimensions())
-    profiles: dict[str, Profile] = {}
-    conditions = []
-    for condition in study.conditions:
-        document = read_version(Version(condition.name, condition.files), limits)
-        profiles[condition.name] = profile_document(document, settings)
-        conditions.append(
-            Condition(
-                name=condition.name,
-                paths=tuple(str(path) for path in condition.files),
-                format=document.format,
-                is_reference=condition.name == study.reference,
-                warnings=document.warnings,
-                excluded=document.excluded,
-            )
-        )
+    versions = [Version(condition.name, condition.files) for condition in study.conditions]
+    profiles, conditions = _measure_versions(versions, study.reference, settings, limits)
     pairs = comparisons(study)
     findings, spreads = compare_pairs(
         profiles, [(p.reference, p.condition, p.manipulated) for p in pairs], tolerances

@@ -17,8 +17,9 @@ from pathlib import Path
 from matcheck.errors import UsageError
 
 
-def write_output(output: Path, text: str, inputs: Sequence[Path]) -> None:
-    """Write ``text`` to ``output`` via a temporary file and a rename.
+def write_output(output: Path, text: str | bytes, inputs: Sequence[Path]) -> None:
+    """Write ``text`` (or the bytes of a binary report) to ``output`` via a temporary file
+    and a rename.
 
     Refuses when ``output`` is one of the inputs (also through a symbolic or hard link), a
     directory, or an existing file that is not a regular file (a device, a pipe), so a report
@@ -44,8 +45,9 @@ def write_output(output: Path, text: str, inputs: Sequence[Path]) -> None:
     except OSError as error:
         raise UsageError(f"--output {output} cannot be written ({error.strerror})") from None
     try:
-        with os.fdopen(handle, "w", encoding="utf-8", errors="surrogateescape") as stream:
-            stream.write(text)
+        data = text if isinstance(text, bytes) else text.encode("utf-8", "surrogateescape")
+        with os.fdopen(handle, "wb") as stream:
+            stream.write(data)
             stream.flush()
             os.fsync(stream.fileno())
         os.chmod(temporary, mode)

@@ -904,15 +904,14 @@ def test_output_is_atomic(
     report.chmod(0o640)
     real_fdopen = os.fdopen
 
-    class DiskFull(io.TextIOWrapper):
-        def write(self, text: str) -> int:
-            super().write(text[: len(text) // 2])
+    class DiskFull(io.BufferedWriter):
+        def write(self, data: Any) -> int:
+            super().write(bytes(data)[: len(data) // 2])
             self.flush()  # half the report really reaches the temporary file
             raise OSError(errno.ENOSPC, os.strerror(errno.ENOSPC))
 
-    def failing_fdopen(fd: int, *args: Any, **kwargs: Any) -> io.TextIOWrapper:
-        raw = real_fdopen(fd, "wb")
-        return DiskFull(raw, encoding="utf-8")
+    def failing_fdopen(fd: int, *args: Any, **kwargs: Any) -> io.BufferedWriter:
+        return DiskFull(io.FileIO(fd, "wb"))
 
     monkeypatch.setattr(output.os, "fdopen", failing_fdopen)
     status, _, err = _run(capsys, "profile", lesson, "-f", "json", "-o", report)

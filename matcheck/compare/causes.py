@@ -38,21 +38,29 @@ FORMULA_INPUTS: dict[str, tuple[str, ...]] = {
     "automated_readability": ("words_per_sentence", "long_words_share"),
     "dale_chall": ("words_per_sentence", "rare_words_share"),
 }
-FIGURE_ECHOES = (
-    "figure_pixel_area",
-    "figure_display_area",
-    "captions",
-    "caption_words",
-    "figures_without_alt_text",
-    "figures_unreadable",
-)
-EMPHASIS_ECHOES = (
-    "bold_words",
-    "italic_words",
-    "underline_words",
-    "highlight_words",
-    "emphasized_terms",
-)
+# Measures that follow from another: an echo of the first, and intended when it is manipulated.
+IMPLIED: dict[str, tuple[str, ...]] = {
+    "figures": (
+        "figure_pixel_area",
+        "figure_display_area",
+        "captions",
+        "caption_words",
+        "figures_without_alt_text",
+        "figures_unreadable",
+    ),
+    "words": ("reading_time", "characters"),
+    "headings": (*(f"headings_level_{n}" for n in range(1, 7)), "sections"),
+    "list_items": ("lists",),
+    "emphasized_words": (
+        "bold_words",
+        "italic_words",
+        "underline_words",
+        "highlight_words",
+        "emphasized_terms",
+    ),
+}
+FIGURE_ECHOES = IMPLIED["figures"]
+EMPHASIS_ECHOES = IMPLIED["emphasized_words"]
 MAX_EVIDENCE = 12
 _ACTIVE = (Status.DIFFERS, Status.INTENDED, Status.INCONCLUSIVE)
 

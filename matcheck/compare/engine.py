@@ -11,6 +11,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping, Sequence
 
 from matcheck.compare import causes
+from matcheck.compare.causes import IMPLIED
 from matcheck.compare.content import PairContent, build_model, compare_content
 from matcheck.compare.verdicts import decide, decide_mean, decide_sections
 from matcheck.errors import UsageError
@@ -24,27 +25,6 @@ CONTENT_DIMENSIONS = {
     "passages_added": "passages",
     "passages_rewritten": "passages",
     "passages_moved": "passages",
-}
-# Measures that follow from another: manipulating the first makes the others intended too.
-IMPLIED: dict[str, tuple[str, ...]] = {
-    "figures": (
-        "figure_pixel_area",
-        "figure_display_area",
-        "captions",
-        "caption_words",
-        "figures_without_alt_text",
-        "figures_unreadable",
-    ),
-    "words": ("reading_time", "characters"),
-    "headings": (*(f"headings_level_{n}" for n in range(1, 7)), "sections"),
-    "list_items": ("lists",),
-    "emphasized_words": (
-        "bold_words",
-        "italic_words",
-        "underline_words",
-        "highlight_words",
-        "emphasized_terms",
-    ),
 }
 # key_terms is a profile listing; the comparison judges content by coverage and alignment.
 NOT_COMPARED = {"key_terms"}

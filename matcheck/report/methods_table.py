@@ -12,15 +12,13 @@ from __future__ import annotations
 
 import csv
 import io
-import os
-import tempfile
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from matcheck.errors import UsageError
 from matcheck.findings import Finding, Report, Status
+from matcheck.output import write_output
 from matcheck.report.common import GROUP_ORDER, format_difference, format_tolerance, format_value
 from matcheck.settings import DEFAULT_WPM
 
@@ -534,7 +532,6 @@ def write_docx(table: MethodsTable, path: Path, inputs: Sequence[Path] = ()) -> 
     from docx import Document
     from docx.enum.text import WD_ALIGN_PARAGRAPH
 
-    target = _checked_output(path, inputs)
     document = Document()
     document.core_properties.title = table.title
     document.add_paragraph().add_run(f"Table {table.number}").bold = True
@@ -559,30 +556,9 @@ def write_docx(table: MethodsTable, path: Path, inputs: Sequence[Path] = ()) -> 
     note.add_run("Note.").italic = True
     note.add_run(f" {table.note}")
     note.alignment = WD_ALIGN_PARAGRAPH.LEFT
-    handle, temporary = tempfile.mkstemp(prefix=".matcheck-", suffix=".docx.tmp", dir=target.parent)
-    try:
-        with os.fdopen(handle, "wb") as stream:
-            document.save(stream)
-        os.replace(temporary, target)
-    except BaseException:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
-        raise
-
-
-def _checked_output(output: Path, inputs: Sequence[Path]) -> Path:
-    """The checks of :func:`matcheck.output.write_output`, for a binary file."""
-    target = output.resolve()
-    for path in inputs:
-        if path.exists() and (
-            path.resolve() == target or (output.exists() and output.samefile(path))
-        ):
-            raise UsageError(f"--output {output} is one of the input files; choose another path")
-    if output.is_dir():
-        raise UsageError(f"--output {output} is a directory")
-    if not target.parent.is_dir():
-        raise UsageError(f"--output {output}: the folder {target.parent} does not exist")
-    return target
+    buffer = io.BytesIO()
+    document.save(buffer)
+    write_output(path, buffer.getvalue(), inputs)
 
 
 def _fill(cell: _Cell, text: str, *, right: bool) -> None:
