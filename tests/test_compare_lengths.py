@@ -137,3 +137,28 @@ def test_sentences_joined_in_pairs_are_readability_only(tmp_path: Path, words: i
     longer = [(heading, [joined(p) for p in paragraphs]) for heading, paragraphs in sections]
     _, groups = _compare(tmp_path, render(sections), render(longer))
     assert groups == {"readability"}
+
+
+@pytest.mark.parametrize("words", LENGTHS)
+def test_sentence_cut_from_inside_a_paragraph_is_found(tmp_path: Path, words: int) -> None:
+    # By construction: one sentence of new content (about a power cut and the modem) stands
+    # inside a paragraph of the reference and is cut from the other version.
+    sections = make_lesson(words)
+    middle = len(sections) // 2
+    heading, paragraphs = sections[middle]
+    sentence = (
+        "When a storm knocks out the electricity overnight, unplug the modem and wait until "
+        "the supply has been steady for ten minutes before plugging it back in."
+    )
+    first, *rest = paragraphs[0].split(". ")
+    with_sentence = ". ".join([first, sentence.rstrip("."), *rest])
+    planted = [(heading, [with_sentence, *paragraphs[1:]])]
+    reference = render([*sections[:middle], *planted, *sections[middle + 1 :]])
+    report, groups = _compare(tmp_path, reference, render(sections))
+    # In a 300-word lesson the 27 words are also 9% of its length (beyond the 5% tolerance).
+    assert groups == ({"content", "length"} if words < 500 else {"content"})
+    cut = next(f for f in report.findings if f.dimension == "text_removed")
+    assert cut.status is Status.DIFFERS
+    [evidence] = cut.evidence
+    assert evidence.location is not None and evidence.location.section == heading
+    assert "storm knocks out the electricity" in evidence.text

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import difflib
 import heapq
+from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
@@ -28,6 +29,13 @@ if TYPE_CHECKING:
 KEY_TERMS = 30
 MISSING_SHOWN = 10
 EXCERPT_WORDS = 25
+# A run dropped or added inside paired passages is content when at least this share of its
+# distinct content terms appears nowhere in the other version (judgment call): a sentence cut
+# with what it taught, not a restatement or a reworded phrase.
+NOVEL_SHARE = 0.5
+# ... and when at least this many of its content terms are new (judgment call): a sentence
+# that teaches something names several things; a reworded phrase changes one or two words.
+MIN_NOVEL_TERMS = 3
 # Word runs shorter than this inside paired passages are edits, not content (judgment call).
 MIN_RUN_WORDS = 6
 # difflib's matcher is quadratic in the words of a pair; longer pairs (a lesson read as one
@@ -76,6 +84,20 @@ class PairContent:
     rewritten: tuple[Evidence, ...]
     moved: tuple[Evidence, ...]
     edits: tuple[Evidence, ...]
+
+    @property
+    def text_lost(self) -> tuple[Evidence, ...]:
+        """Runs dropped inside paired passages whose content the version lacks elsewhere."""
+        return tuple(
+            e for e in self.edits if e.kind == "text_removed" and (e.weight or 0) >= NOVEL_SHARE
+        )
+
+    @property
+    def text_new(self) -> tuple[Evidence, ...]:
+        """Runs added inside paired passages with content the reference lacks."""
+        return tuple(
+            e for e in self.edits if e.kind == "text_added" and (e.weight or 0) >= NOVEL_SHARE
+        )
 
 
 def build_model(analyses: dict[str, Analysis]) -> ContentModel:
@@ -199,9 +221,43 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
     )
 
 
+def _content_terms(words: Sequence[str]) -> set[str]:
+    from matcheck.language.pipeline import lemma, stop_words
+
+    stops = stop_words()
+    terms = set()
+    for word in words:
+        if word.isalpha() and len(word) > 1 and word not in stops:
+            term = lemma(word)
+            if term not in stops:
+                terms.add(term)
+    return terms
+
+
+def _vocabulary(version: VersionText) -> set[str]:
+    return {term for passage in version.passages for term in passage.terms if " " not in term}
+
+
+def novelty(run: Sequence[str], other_vocabulary: set[str]) -> float:
+    """Share of a run's distinct content terms that the other version never uses: how much of
+    what the run says is lost, or new. 0 when fewer than :data:`MIN_NOVEL_TERMS` terms are new
+    (a reworded phrase, "about twenty minutes" -> "roughly a third of an hour", is not content).
+    """
+    terms = _content_terms(run)
+    novel = terms - other_vocabulary
+    if len(novel) < MIN_NOVEL_TERMS:
+        return 0.0
+    return len(novel) / len(terms)
+
+
 def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[Evidence]:
-    """Runs of words added or dropped inside passages that otherwise correspond."""
+    """Runs of words added or dropped inside passages that otherwise correspond.
+
+    ``weight`` is the run's :func:`novelty` against the other version: a restated sentence
+    scores near 0, a sentence with content found nowhere else in the other version near 1.
+    """
     evidence: list[Evidence] = []
+    ref_vocabulary, other_vocabulary = _vocabulary(ref), _vocabulary(other)
     for pair in alignment.pairs:
         left = [w for i in pair.left for w in ref.passages[i].words]
         right = [w for j in pair.right for w in other.passages[j].words]
@@ -217,6 +273,7 @@ def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[E
                         condition=ref.name,
                         text=excerpt(" ".join(w.text for w in left[i1:i2])),
                         location=ref.passages[pair.left[0]].location,
+                        weight=novelty(a[i1:i2], other_vocabulary),
                         counterpart=other.passages[pair.right[0]].location,
                     )
                 )
@@ -227,6 +284,7 @@ def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[E
                         condition=other.name,
                         text=excerpt(" ".join(w.text for w in right[j1:j2])),
                         location=other.passages[pair.right[0]].location,
+                        weight=novelty(b[j1:j2], ref_vocabulary),
                         counterpart=ref.passages[pair.left[0]].location,
                     )
                 )

@@ -25,6 +25,8 @@ CONTENT_DIMENSIONS = {
     "passages_added": "passages",
     "passages_rewritten": "passages",
     "passages_moved": "passages",
+    "text_removed": "runs",
+    "text_added": "runs",
 }
 # key_terms is a profile listing; the comparison judges content by coverage and alignment.
 NOT_COMPARED = {"key_terms"}
@@ -189,6 +191,8 @@ def _content_findings(
         "passages_added": content.added,
         "passages_rewritten": content.rewritten,
         "passages_moved": content.moved,
+        "text_removed": content.text_lost,
+        "text_added": content.text_new,
     }
     sizes = {
         ref_name: float(len(content.alignment.pairs) + len(content.removed)),

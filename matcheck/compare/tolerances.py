@@ -58,6 +58,12 @@ DEFAULT_TOLERANCES: dict[str, Tolerance] = {
     "passages_added": Tolerance(reason="every passage has a counterpart in the reference"),
     "passages_rewritten": Tolerance(reason="a weak counterpart is a content change"),
     "passages_moved": Tolerance(reason="order is part of instruction"),
+    "text_removed": Tolerance(
+        reason="a sentence cut from a passage, with content found nowhere else in the version"
+    ),
+    "text_added": Tolerance(
+        reason="a sentence added to a passage, with content the reference has nowhere"
+    ),
     # figures
     "figures": Tolerance(reason=EXACT),
     "figure_pixel_area": Tolerance(relative=0.10, reason=f"10%; {JUDGMENT}"),
@@ -95,6 +101,8 @@ COUNTED_FROM_ZERO = frozenset(
         "passages_added",
         "passages_rewritten",
         "passages_moved",
+        "text_removed",
+        "text_added",
     }
 )
 
