@@ -206,6 +206,7 @@ def check_against(
             label = f"{condition.name}@{revision}"
             delta = compare_versions(
                 [Version(label, old.files), Version(condition.name, condition.files)],
+                tolerance_overrides=(*study.tolerances, *extra_tolerances),
                 settings=Settings(words_per_minute=study.reading_rate or DEFAULT_WPM),
                 limits=limits,
             )

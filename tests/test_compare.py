@@ -304,5 +304,22 @@ def test_same_lesson_in_docx_pdf_and_markdown_is_matched(version: str) -> None:
     )
     assert not report.differs, differing(report)
     unknown = {f.dimension for f in report.findings if f.status is Status.INCONCLUSIVE}
-    # Only what a format cannot show: PDF tables, Markdown display sizes.
-    assert unknown <= {"tables", "figure_display_area"}
+    # Only what a format cannot show: PDF underline and highlight, Markdown display sizes.
+    assert unknown <= {"underline_words", "highlight_words", "figure_display_area"}
+
+
+def test_plain_text_copy_is_not_a_structure_or_signaling_difference(tmp_path: Path) -> None:
+    # Plain text has no markup: its headings, lists and emphasis are unknown, not zero.
+    plain = "\n\n".join(
+        p.lstrip("#").strip().replace("**", "").replace("_", "")
+        for p in BASE.split("\n\n")
+        if not p.startswith(("|", "- ", "1."))
+    )
+    (tmp_path / "lesson.txt").write_text(plain, encoding="utf-8")
+    (tmp_path / "lesson.md").write_text(BASE, encoding="utf-8")
+    report = compare_versions(
+        [Version("md", (tmp_path / "lesson.md",)), Version("txt", (tmp_path / "lesson.txt",))]
+    )
+    statuses = {f.dimension: f.status for f in report.findings}
+    for dimension in ("headings", "lists", "list_items", "tables", "emphasized_words"):
+        assert statuses[dimension] is Status.INCONCLUSIVE

@@ -337,7 +337,9 @@ def test_emphasis_by_kind_and_terms() -> None:
     item: list[Run] = [("Inner tube", BOLD), (" first", NO_EMPHASIS)]
     builder.add_block(BlockKind.LIST_ITEM, item, level=1, group=group)
     table = builder.new_group()
-    builder.add_block(BlockKind.TABLE_CELL, [("bead", ITALIC)], group=table)
+    builder.add_block(BlockKind.TABLE_CELL, [("the ", NO_EMPHASIS), ("bead", ITALIC)], group=table)
+    # A cell emphasised end to end is a header row's typography, not signaling.
+    builder.add_block(BlockKind.TABLE_CELL, [("Header Cell", BOLD)], group=table)
     # Captions belong to figures: their emphasis is not counted either.
     builder.add_block(BlockKind.CAPTION, [("Figure 1. ", NO_EMPHASIS), ("Valve", BOLD)])
     profile = _profile(builder)

@@ -31,8 +31,14 @@ CATALOGUE: dict[str, MeasureSpec] = {
 def measure(analysis: Analysis, settings: Settings) -> Profile:
     """Every measure of one analysed version."""
     measurements: list[Measurement] = []
+    unseen = set(analysis.document.undetected)
     for _group, function in MEASURE_GROUPS:
-        measurements.extend(function(analysis, settings))
+        for measurement in function(analysis, settings):
+            if measurement.id in unseen:
+                # The format cannot show it: unknown, never a misleading zero.
+                note = f"{analysis.document.format} cannot show this"
+                measurement = Measurement(measurement.spec, None, note=note)
+            measurements.append(measurement)
     return Profile(analysis, tuple(measurements))
 
 

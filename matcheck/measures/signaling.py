@@ -1,7 +1,8 @@
 """Signaling: typographic emphasis that draws a reader to particular words.
 
 Only body text counts (paragraphs, list items, table cells, footnotes): headings are often
-bold by style, and captions belong to figures. A word counts as emphasised with a kind when
+bold by style, and captions belong to figures. A table cell emphasised from end to end (a
+header row) does not count either. A word counts as emphasised with a kind when
 every character of it lies inside a span of that kind.
 """
 
@@ -38,12 +39,21 @@ def _kinds_at(block: Block, start: int, end: int) -> frozenset[Emphasis]:
     )
 
 
+def _wholly_emphasised(block: Block) -> bool:
+    """A table cell in bold (or italic) from end to end: a header row's typography, which
+    formats disagree about (a PDF shows a table style's bold header, DOCX and Markdown keep it
+    in the style), not a term singled out in the text."""
+    return any(span.start == 0 and span.end >= len(block.text) for span in block.emphasis)
+
+
 def measure_signaling(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
     per_kind: Counter[Emphasis] = Counter()
     any_count = 0
     terms: Counter[str] = Counter()
     for item in analysis.of(BODY_KINDS):
         block = item.block
+        if block.kind is BlockKind.TABLE_CELL and _wholly_emphasised(block):
+            continue
         run: list[str] = []
         for word in item.words:
             kinds = _kinds_at(block, word.start, word.end) if block.emphasis else frozenset()

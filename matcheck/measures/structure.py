@@ -49,10 +49,7 @@ def measure_structure(analysis: Analysis, settings: Settings) -> Iterator[Measur
     yield Measurement(LISTS, float(len({item.group for item in items})))
     yield Measurement(LIST_ITEMS, float(len(items)))
     cells = document.blocks_of(BlockKind.TABLE_CELL)
-    if "tables" in document.undetected:
-        yield Measurement(TABLES, None, note=f"{document.format} does not mark tables")
-    else:
-        yield Measurement(TABLES, float(len({cell.group for cell in cells})))
+    yield Measurement(TABLES, float(len({cell.group for cell in cells})))
 
 
 def _sections(levels: list[int]) -> int:

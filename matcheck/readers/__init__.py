@@ -57,7 +57,24 @@ READERS: dict[str, Reader] = {
 
 # What a format cannot show, so its measure is unknown rather than zero.
 UNDETECTED: dict[str, tuple[str, ...]] = {
-    # None now: PDF tables are inferred from text in aligned columns (pdf_tables.py) and count.
+    # Underline and highlight are drawn shapes in a PDF, not text properties; the reader sees
+    # only bold and italic (font names). Tables are inferred from aligned columns and count.
+    "pdf": ("underline_words", "highlight_words"),
+    # Plain text has no markup at all: no headings, lists, tables or emphasis to count.
+    "text": (
+        "headings",
+        *(f"headings_level_{level}" for level in range(1, 7)),
+        "sections",
+        "lists",
+        "list_items",
+        "tables",
+        "emphasized_words",
+        "bold_words",
+        "italic_words",
+        "underline_words",
+        "highlight_words",
+        "emphasized_terms",
+    ),
 }
 
 

@@ -111,22 +111,57 @@ def sorted_findings(findings: tuple[Finding, ...] | list[Finding]) -> list[Findi
     return sorted(findings, key=key)
 
 
-def describe_evidence(item: Evidence) -> str:
-    label = EVIDENCE_LABELS.get(item.kind, item.kind.replace("_", " "))
+# How each kind of evidence reads, by direction: {here} is the version the location points
+# into, {there} the other version of the pair.
+PHRASES = {
+    "passage_removed": "passage of {here} missing from {there}",
+    "passage_added": "passage of {here} not in {there}",
+    "passage_rewritten": "passage of {here} rewritten in {there}",
+    "passage_moved": "passage of {here} moved in {there}",
+    "text_removed": "text of {here} cut from the matching passage of {there}",
+    "text_added": "text added in {here}, not in {there}",
+    "term_missing": "key term of {here} not found in {there}",
+    "heading_removed": "heading of {here} missing from {there}",
+    "heading_added": "heading of {here} not in {there}",
+    "list_item_removed": "list item of {here} missing from {there}",
+    "list_item_added": "list item of {here} not in {there}",
+    "table_cell_removed": "table cell of {here} missing from {there}",
+    "table_cell_added": "table cell of {here} not in {there}",
+    "figure_added": "figure of {here} not in {there}",
+    "figure_removed": "figure of {here} not in {there}",
+    "emphasis_added": "emphasis in {here}, none in {there}",
+    "emphasis_removed": "emphasis in {here}, none in {there}",
+    "sentence_length_changed": "sentence length in {here}",
+    "item_taught": "taught in {here}",
+    "item_not_taught": "not taught in {here}",
+}
+
+
+def describe_evidence(item: Evidence, pair: tuple[str, str] | None = None) -> str:
+    """One line for a piece of evidence; ``pair`` (reference, condition) names the other
+    version, so the line says which version lacks what."""
+    here = item.condition
+    there = ""
+    if pair is not None:
+        there = pair[1] if here == pair[0] else pair[0]
+    phrase = PHRASES.get(item.kind)
+    if phrase and there:
+        label = phrase.format(here=here, there=there)
+    else:
+        label = f"{EVIDENCE_LABELS.get(item.kind, item.kind.replace('_', ' '))} in {here}"
     where = f" — {item.location.describe()}" if item.location else ""
     extra = ""
     if item.similarity is not None:
         extra += f" (similarity {item.similarity:.2f})"
     if item.kind == "term_missing" and item.weight is not None:
         extra += f" (weight {item.weight * 100:.1f}%)"
-    text = f"“{item.text}”"
-    line = f"{label} in {item.condition}{where}: {text}{extra}"
+    line = f"{label}{where}: “{item.text}”{extra}"
     if item.counterpart is not None:
-        counterpart = f"; counterpart at {item.counterpart.describe()}"
+        counterpart = f"; in {there or 'the other'} at {item.counterpart.describe()}"
         if item.counterpart_text:
             counterpart += f": “{item.counterpart_text}”"
         line += counterpart
-    elif item.counterpart_text:
+    elif item.counterpart_text and item.kind != "term_missing":
         line += f" ({item.counterpart_text})"
     return line
 

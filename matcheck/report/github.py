@@ -75,7 +75,8 @@ def render_github(report: Report) -> str:
             f"{format_tolerance(finding)})"
         )
         if evidence is not None:
-            message += f"\n{describe_evidence(evidence)}"
+            pair = (finding.reference, finding.condition)
+            message += f"\n{describe_evidence(evidence, pair)}"
         kind = "error" if finding.status is Status.DIFFERS else "warning"
         lines.append(_command(kind, message, path, line, f"matcheck: {finding.group}"))
     for text in (*report.warnings, *report.regressions):

@@ -86,7 +86,8 @@ def render_markdown(report: Report) -> str:
                 f"{len(finding.evidence)} located</summary>"
             )
             lines.append("")
-            lines += [f"- {_cell(describe_evidence(item))}" for item in finding.evidence]
+            pair = (finding.reference, finding.condition)
+            lines += [f"- {_cell(describe_evidence(item, pair))}" for item in finding.evidence]
             lines += ["", "</details>", ""]
     if report.revision:
         lines += [f"### Since `{report.revision}`", ""]

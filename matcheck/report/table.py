@@ -108,7 +108,8 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
                 if finding.status is Status.INCONCLUSIVE:
                     console.print(f"  {finding.reason}", highlight=False)
                 for item in finding.evidence[:MAX_EVIDENCE_LINES]:
-                    console.print(f"  • {describe_evidence(item)}", highlight=False, markup=False)
+                    line = describe_evidence(item, (finding.reference, finding.condition))
+                    console.print(f"  • {line}", highlight=False, markup=False)
                 if len(finding.evidence) > MAX_EVIDENCE_LINES:
                     extra = len(finding.evidence) - MAX_EVIDENCE_LINES
                     console.print(f"  … and {extra} more (see --format json)", highlight=False)
