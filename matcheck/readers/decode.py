@@ -11,7 +11,8 @@ from __future__ import annotations
 import codecs
 from pathlib import Path
 
-from matcheck.errors import CorruptFile
+from matcheck.errors import CorruptFile, InputError
+from matcheck.limits import ReadLimits
 
 CP1252_WARNING = "not valid UTF-8; read as Windows-1252 (cp1252)"
 LATIN1_WARNING = "not valid UTF-8 or Windows-1252; read as Latin-1 (ISO-8859-1)"
@@ -63,3 +64,20 @@ def decode_lesson_text(data: bytes, path: Path) -> tuple[str, list[str]]:
 
 def _normalize_newlines(text: str) -> str:
     return text.replace("\r\n", "\n").replace("\r", "\n")
+
+
+def read_lesson_text(path: Path, limits: ReadLimits, label: str) -> tuple[str, list[str]]:
+    """Read and decode a text-format lesson, refusing it beyond ``limits.max_words``.
+
+    Words are counted on the raw text before any parsing, so an enormous file costs no parse;
+    ``label`` names the format in the refusal ("Markdown file").
+    """
+    from matcheck.readers.wordlimit import raw_word_count, refuse_words
+
+    try:
+        data = path.read_bytes()
+    except OSError as error:
+        raise InputError(f"cannot be read ({error.strerror})", path=str(path)) from None
+    text, warnings = decode_lesson_text(data, path)
+    refuse_words(raw_word_count(text), limits, str(path), label, "words and marks")
+    return text, warnings

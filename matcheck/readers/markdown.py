@@ -27,13 +27,12 @@ from markdown_it import MarkdownIt
 from markdown_it.rules_inline.state_inline import Delimiter, StateInline
 from markdown_it.token import Token
 
-from matcheck.errors import CorruptFile, InputError
+from matcheck.errors import CorruptFile
 from matcheck.limits import ReadLimits
 from matcheck.model import BlockKind, Document, Emphasis
 from matcheck.readers.builder import NO_EMPHASIS, DocumentBuilder, Run
-from matcheck.readers.decode import decode_lesson_text
+from matcheck.readers.decode import read_lesson_text
 from matcheck.readers.images import image_size
-from matcheck.readers.wordlimit import raw_word_count, refuse_words
 
 # Inline HTML tags that carry emphasis (their CSS-free meaning in every browser).
 HTML_EMPHASIS = {
@@ -67,13 +66,7 @@ def read_markdown(path: Path, limits: ReadLimits) -> Document:
     :class:`~matcheck.errors.LimitExceeded` beyond ``limits.max_words`` (counted on the raw
     text, before parsing) and :class:`~matcheck.errors.CorruptFile` if the parser fails on it.
     """
-    try:
-        data = path.read_bytes()
-    except OSError as error:
-        raise InputError(f"cannot be read ({error.strerror})", path=str(path)) from None
-    text, warnings = decode_lesson_text(data, path)
-    # Counted on the raw text before parsing, so an enormous file costs no parse.
-    refuse_words(raw_word_count(text), limits, str(path), "Markdown file", "words and marks")
+    text, warnings = read_lesson_text(path, limits, "Markdown file")
     builder = DocumentBuilder(str(path), "markdown")
     for warning in warnings:
         builder.warn(warning)

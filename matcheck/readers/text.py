@@ -10,12 +10,10 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from matcheck.errors import InputError
 from matcheck.limits import ReadLimits
 from matcheck.model import BlockKind, Document
 from matcheck.readers.builder import DocumentBuilder
-from matcheck.readers.decode import decode_lesson_text
-from matcheck.readers.wordlimit import raw_word_count, refuse_words
+from matcheck.readers.decode import read_lesson_text
 
 
 def read_text(path: Path, limits: ReadLimits) -> Document:
@@ -23,13 +21,7 @@ def read_text(path: Path, limits: ReadLimits) -> Document:
 
     Raises :class:`~matcheck.errors.LimitExceeded` beyond ``limits.max_words``.
     """
-    try:
-        data = path.read_bytes()
-    except OSError as error:
-        raise InputError(f"cannot be read ({error.strerror})", path=str(path)) from None
-    text, warnings = decode_lesson_text(data, path)
-    # Counted on the raw text before parsing, so an enormous file costs no parse.
-    refuse_words(raw_word_count(text), limits, str(path), "text file", "words and marks")
+    text, warnings = read_lesson_text(path, limits, "text file")
     builder = DocumentBuilder(str(path), "text")
     for warning in warnings:
         builder.warn(warning)
