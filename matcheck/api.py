@@ -126,6 +126,14 @@ def compare_versions(
     )
 
 
+def _study_settings(study: Study) -> Settings:
+    return Settings(words_per_minute=study.reading_rate or DEFAULT_WPM)
+
+
+def _study_versions(study: Study) -> list[Version]:
+    return [Version(condition.name, condition.files) for condition in study.conditions]
+
+
 def check_study(
     study: Study,
     *,
@@ -134,16 +142,28 @@ def check_study(
     extra_tolerances: Sequence[str] = (),
 ) -> Report:
     """Compare a study's conditions as its design requires (see :func:`study.comparisons`)."""
+    settings = settings or _study_settings(study)
+    profiles, conditions = _measure_versions(
+        _study_versions(study), study.reference, settings, limits
+    )
+    return _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
+
+
+def _study_report(
+    study: Study,
+    profiles: dict[str, Profile],
+    conditions: Sequence[Condition],
+    settings: Settings,
+    extra_tolerances: Sequence[str],
+    limits: ReadLimits,
+) -> Report:
+    """The study's report from its measured conditions."""
     from matcheck.compare.engine import compare_pairs, known_dimensions
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.findings import Pairing
     from matcheck.study import comparisons
 
-    if settings is None:
-        settings = Settings(words_per_minute=study.reading_rate or DEFAULT_WPM)
     tolerances = parse_tolerances([*study.tolerances, *extra_tolerances], known_dimensions())
-    versions = [Version(condition.name, condition.files) for condition in study.conditions]
-    profiles, conditions = _measure_versions(versions, study.reference, settings, limits)
     pairs = comparisons(study)
     findings, spreads = compare_pairs(
         profiles, [(p.reference, p.condition, p.manipulated) for p in pairs], tolerances
@@ -182,41 +202,58 @@ def check_against(
     limits: ReadLimits = DEFAULT_LIMITS,
     extra_tolerances: Sequence[str] = (),
 ) -> Report:
-    """Check a study now, and report what changed since ``revision`` and what it broke."""
+    """Check a study now, and report what changed since ``revision`` and what it broke.
+
+    Each condition is read once as it is now and once as it was at ``revision``; those two
+    sets of profiles serve the study's report then and now and the comparison of each
+    condition with itself.
+    """
     import tempfile
     from dataclasses import replace
 
+    from matcheck.compare.engine import compare_pairs, known_dimensions
+    from matcheck.compare.tolerances import parse_tolerances
     from matcheck.findings import Status
     from matcheck.revision import export_folder
     from matcheck.study import load_study
 
     study = load_study(study_path)
-    now = check_study(study, limits=limits, extra_tolerances=extra_tolerances)
+    settings = _study_settings(study)
+    profiles, conditions = _measure_versions(
+        _study_versions(study), study.reference, settings, limits
+    )
+    now = _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
     with tempfile.TemporaryDirectory(prefix="matcheck-rev-") as folder:
         old_study = load_study(export_folder(study_path, revision, Path(folder)))
-        before = check_study(old_study, limits=limits, extra_tolerances=extra_tolerances)
-        changes: list[Finding] = []
-        summaries: list[str] = []
-        old_conditions = {c.name: c for c in old_study.conditions}
-        for condition in study.conditions:
-            old = old_conditions.get(condition.name)
-            if old is None:
-                summaries.append(f"{condition.name} is new since {revision}")
-                continue
-            label = f"{condition.name}@{revision}"
-            delta = compare_versions(
-                [Version(label, old.files), Version(condition.name, condition.files)],
-                tolerance_overrides=(*study.tolerances, *extra_tolerances),
-                settings=Settings(words_per_minute=study.reading_rate or DEFAULT_WPM),
-                limits=limits,
+        old_settings = _study_settings(old_study)
+        old_profiles, old_conditions = _measure_versions(
+            _study_versions(old_study), old_study.reference, old_settings, limits
+        )
+        before = _study_report(
+            old_study, old_profiles, old_conditions, old_settings, extra_tolerances, limits
+        )
+    summaries: list[str] = []
+    both: dict[str, Profile] = dict(profiles)
+    pairs: list[tuple[str, str, tuple[str, ...]]] = []
+    for condition in study.conditions:
+        if condition.name not in old_profiles:
+            summaries.append(f"{condition.name} is new since {revision}")
+            continue
+        label = f"{condition.name}@{revision}"
+        both[label] = old_profiles[condition.name]
+        pairs.append((label, condition.name, ()))
+    tolerances = parse_tolerances([*study.tolerances, *extra_tolerances], known_dimensions())
+    changes, _ = compare_pairs(both, pairs, tolerances)
+    for _label, name, _ in pairs:
+        changed = [
+            f
+            for f in changes
+            if f.condition == name and f.status is Status.DIFFERS and f.caused_by is None
+        ]
+        if changed:
+            summaries.append(
+                f"{name} changed since {revision}: " + ", ".join(_change_phrase(f) for f in changed)
             )
-            changed = [f for f in delta.root_findings(Status.DIFFERS)]
-            changes.extend(delta.findings)
-            if changed:
-                summaries.append(
-                    f"{condition.name} changed since {revision}: "
-                    + ", ".join(_change_phrase(f) for f in changed)
-                )
     held = {
         (f.reference, f.condition, f.dimension)
         for f in before.findings

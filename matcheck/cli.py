@@ -398,4 +398,4 @@ def main(argv: Sequence[str] | None = None) -> int:
     return int(result) if isinstance(result, int) else EXIT_MATCHED
 
 
-__all__ = ["UsageError", "app", "main"]
+__all__ = ["app", "main"]

@@ -15,27 +15,6 @@ GROUP_ORDER = (
     "assessment",
 )
 
-EVIDENCE_LABELS = {
-    "passage_removed": "passage removed",
-    "passage_added": "passage added",
-    "passage_rewritten": "passage rewritten",
-    "passage_moved": "passage moved",
-    "text_removed": "text removed inside a passage",
-    "text_added": "text added inside a passage",
-    "term_missing": "key term missing",
-    "heading_removed": "heading removed",
-    "heading_added": "heading added",
-    "list_item_removed": "list item removed",
-    "list_item_added": "list item added",
-    "table_cell_removed": "table cell removed",
-    "table_cell_added": "table cell added",
-    "figure_added": "figure",
-    "figure_removed": "figure",
-    "emphasis_added": "emphasis added",
-    "emphasis_removed": "emphasis removed",
-    "sentence_length_changed": "sentence length changed",
-}
-
 _DECIMALS = {
     "share": 3,
     "grade": 1,
@@ -137,18 +116,13 @@ PHRASES = {
 }
 
 
-def describe_evidence(item: Evidence, pair: tuple[str, str] | None = None) -> str:
-    """One line for a piece of evidence; ``pair`` (reference, condition) names the other
-    version, so the line says which version lacks what."""
+def describe_evidence(item: Evidence, pair: tuple[str, str]) -> str:
+    """One line for a piece of evidence of the comparison ``pair`` (reference, condition),
+    saying which version has what the other lacks."""
     here = item.condition
-    there = ""
-    if pair is not None:
-        there = pair[1] if here == pair[0] else pair[0]
-    phrase = PHRASES.get(item.kind)
-    if phrase and there:
-        label = phrase.format(here=here, there=there)
-    else:
-        label = f"{EVIDENCE_LABELS.get(item.kind, item.kind.replace('_', ' '))} in {here}"
+    there = pair[1] if here == pair[0] else pair[0]
+    phrase = PHRASES.get(item.kind, item.kind.replace("_", " ") + " in {here}")
+    label = phrase.format(here=here, there=there)
     where = f" — {item.location.describe()}" if item.location else ""
     extra = ""
     if item.similarity is not None:
@@ -157,7 +131,7 @@ def describe_evidence(item: Evidence, pair: tuple[str, str] | None = None) -> st
         extra += f" (weight {item.weight * 100:.1f}%)"
     line = f"{label}{where}: “{item.text}”{extra}"
     if item.counterpart is not None:
-        counterpart = f"; in {there or 'the other'} at {item.counterpart.describe()}"
+        counterpart = f"; in {there} at {item.counterpart.describe()}"
         if item.counterpart_text:
             counterpart += f": “{item.counterpart_text}”"
         line += counterpart
