@@ -118,7 +118,8 @@ def unigrams(passage: Passage) -> frozenset[str]:
 def coverage(terms: ItemTerms, units: Sequence[Passage], weights: Mapping[str, float]) -> Coverage:
     """The best window of one or two adjacent passages for ``terms`` (first best wins)."""
     needed = {term: weights[term] * factor for term, factor in terms.factors.items()}
-    total = sum(needed.values())
+    # fsum: a sum that does not depend on the (hash-seeded) order of a set's terms.
+    total = math.fsum(needed.values())
     best = Coverage(0.0, frozenset(), None)
     sets = [unigrams(unit) & needed.keys() for unit in units]
     windows = [(i,) for i in range(len(units))] + [(i, i + 1) for i in range(len(units) - 1)]
@@ -126,10 +127,10 @@ def coverage(terms: ItemTerms, units: Sequence[Passage], weights: Mapping[str, f
     windows.sort()
     for window in windows:
         present = frozenset().union(*(sets[i] for i in window))
-        share = sum(needed[term] for term in present) / total if total else 0.0
+        share = math.fsum(needed[term] for term in present) / total if total else 0.0
         if share > best.share:
             # Point at the passage of the window that holds most of the weight.
-            main = max(window, key=lambda i: (sum(needed[t] for t in sets[i]), -i))
+            main = max(window, key=lambda i: (math.fsum(needed[t] for t in sets[i]), -i))
             best = Coverage(share, present, units[main])
     return best
 
