@@ -99,8 +99,9 @@ def compare_versions(
     limits: ReadLimits = DEFAULT_LIMITS,
 ) -> Report:
     """Compare every version with the reference (the first unless named)."""
-    from matcheck.compare.engine import compare_profiles, expand_manipulated, known_dimensions
+    from matcheck.compare.engine import compare_profiles
     from matcheck.compare.tolerances import parse_tolerances
+    from matcheck.intent import expand_manipulated
 
     settings = settings or Settings()
     if len(versions) < 2:
@@ -113,7 +114,7 @@ def compare_versions(
         )
     # Validate options before the (slower) reading.
     expand_manipulated(manipulated)
-    tolerances = parse_tolerances(tolerance_overrides, known_dimensions())
+    tolerances = parse_tolerances(tolerance_overrides)
     profiles, conditions = _measure_versions(versions, reference, settings, limits)
     findings, spreads = compare_profiles(profiles, reference, manipulated, tolerances)
     return Report(
@@ -158,12 +159,12 @@ def _study_report(
     limits: ReadLimits,
 ) -> Report:
     """The study's report from its measured conditions."""
-    from matcheck.compare.engine import compare_pairs, known_dimensions
+    from matcheck.compare.engine import compare_pairs
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.findings import Pairing
     from matcheck.study import comparisons
 
-    tolerances = parse_tolerances([*study.tolerances, *extra_tolerances], known_dimensions())
+    tolerances = parse_tolerances([*study.tolerances, *extra_tolerances])
     pairs = comparisons(study)
     findings, spreads = compare_pairs(
         profiles, [(p.reference, p.condition, p.manipulated) for p in pairs], tolerances
@@ -211,7 +212,7 @@ def check_against(
     import tempfile
     from dataclasses import replace
 
-    from matcheck.compare.engine import compare_pairs, known_dimensions
+    from matcheck.compare.engine import compare_pairs
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.findings import Status
     from matcheck.revision import export_folder
@@ -242,7 +243,7 @@ def check_against(
         label = f"{condition.name}@{revision}"
         both[label] = old_profiles[condition.name]
         pairs.append((label, condition.name, ()))
-    tolerances = parse_tolerances([*study.tolerances, *extra_tolerances], known_dimensions())
+    tolerances = parse_tolerances([*study.tolerances, *extra_tolerances])
     changes, _ = compare_pairs(both, pairs, tolerances)
     for _label, name, _ in pairs:
         changed = [

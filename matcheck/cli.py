@@ -312,25 +312,19 @@ def measures() -> int:
     from rich.console import Console
     from rich.table import Table
 
-    from matcheck.compare.engine import CONTENT_DIMENSIONS
-    from matcheck.compare.tolerances import DEFAULT_TOLERANCES
-    from matcheck.measures import CATALOGUE
+    from matcheck.measures import catalogue
 
     table = Table(header_style="bold")
     for column in ("Id", "Group", "Unit", "Default tolerance", "What it is"):
         table.add_column(column)
-    for spec in CATALOGUE.values():
-        tol = DEFAULT_TOLERANCES.get(spec.id)
+    for spec in catalogue().values():
         table.add_row(
             spec.id,
             spec.group.value,
             spec.unit,
-            tol.describe(spec.unit) if tol else "—",
+            spec.tolerance.describe(spec.unit) if spec.compared else "—",
             spec.description,
         )
-    for dimension, unit in CONTENT_DIMENSIONS.items():
-        tol = DEFAULT_TOLERANCES[dimension]
-        table.add_row(dimension, "content", unit, tol.describe(unit), tol.reason)
     Console().print(table)
     return EXIT_MATCHED
 

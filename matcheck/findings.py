@@ -13,7 +13,7 @@ from enum import StrEnum
 
 from matcheck.model import Location
 
-SCHEMA_VERSION = "1.0"
+SCHEMA_VERSION = "2.0"
 
 NOT_PROOF = (
     "A clean report does not prove that the versions are equivalent: it covers only what "
@@ -28,6 +28,64 @@ class Status(StrEnum):
     INCONCLUSIVE = "inconclusive"
     INTENDED = "intended"
     MATCHED = "matched"
+
+
+class Group(StrEnum):
+    """The groups findings belong to, in report order."""
+
+    LENGTH = "length"
+    READABILITY = "readability"
+    CONTENT = "content"
+    FIGURES = "figures"
+    STRUCTURE = "structure"
+    SIGNALING = "signaling"
+    ASSESSMENT = "assessment"
+
+
+class Basis(StrEnum):
+    """Why a finding has its status: the reason code the decision step records."""
+
+    DECLARED = "declared"  # the design manipulates this measure
+    IMPLIED = "implied"  # follows from a manipulated measure (figure areas from figures)
+    WITHIN_TOLERANCE = "within_tolerance"
+    BEYOND_TOLERANCE = "beyond_tolerance"
+    NOT_SHOWN = "not_shown"  # a format cannot show it, or it is undefined in one version
+    TEST_INCONCLUSIVE = "test_inconclusive"  # beyond tolerance, but a test cannot show it
+    ECHO = "echo"  # follows a root cause that is itself inconclusive
+
+
+class EvidenceKind(StrEnum):
+    """What a piece of evidence shows. Each kind carries its phrase: ``{here}`` is the
+    version its location points into, ``{there}`` the other version of the pair."""
+
+    phrase: str
+
+    def __new__(cls, value: str, phrase: str) -> EvidenceKind:
+        member = str.__new__(cls, value)
+        member._value_ = value
+        member.phrase = phrase
+        return member
+
+    PASSAGE_REMOVED = "passage_removed", "passage of {here} missing from {there}"
+    PASSAGE_ADDED = "passage_added", "passage of {here} not in {there}"
+    PASSAGE_REWRITTEN = "passage_rewritten", "passage of {here} rewritten in {there}"
+    PASSAGE_MOVED = "passage_moved", "passage of {here} moved in {there}"
+    TEXT_REMOVED = "text_removed", "text of {here} cut from the matching passage of {there}"
+    TEXT_ADDED = "text_added", "text added in {here}, not in {there}"
+    TERM_MISSING = "term_missing", "key term of {here} not found in {there}"
+    HEADING_REMOVED = "heading_removed", "heading of {here} missing from {there}"
+    HEADING_ADDED = "heading_added", "heading of {here} not in {there}"
+    LIST_ITEM_REMOVED = "list_item_removed", "list item of {here} missing from {there}"
+    LIST_ITEM_ADDED = "list_item_added", "list item of {here} not in {there}"
+    TABLE_CELL_REMOVED = "table_cell_removed", "table cell of {here} missing from {there}"
+    TABLE_CELL_ADDED = "table_cell_added", "table cell of {here} not in {there}"
+    FIGURE_ADDED = "figure_added", "figure of {here} not in {there}"
+    FIGURE_REMOVED = "figure_removed", "figure of {here} not in {there}"
+    EMPHASIS_ADDED = "emphasis_added", "emphasis in {here}, none in {there}"
+    EMPHASIS_REMOVED = "emphasis_removed", "emphasis in {here}, none in {there}"
+    SENTENCE_LENGTH_CHANGED = "sentence_length_changed", "sentence length in {here}"
+    ITEM_TAUGHT = "item_taught", "taught in {here}"
+    ITEM_NOT_TAUGHT = "item_not_taught", "not taught in {here}"
 
 
 @dataclass(frozen=True, slots=True)
@@ -56,12 +114,11 @@ class Tolerance:
 class Evidence:
     """Something located in the text that shows a difference.
 
-    ``kind`` is one of the documented evidence kinds (``passage_removed``, ``term_missing``,
-    ...; see docs/report-schema.md); ``condition`` names the version where ``location``
-    points; ``text`` is an excerpt or a term.
+    ``kind`` says what it shows (see docs/report-schema.md); ``condition`` names the version
+    where ``location`` points; ``text`` is an excerpt or a term.
     """
 
-    kind: str
+    kind: EvidenceKind
     condition: str
     text: str
     location: Location | None = None
@@ -82,8 +139,14 @@ class StatTest:
 
 @dataclass(frozen=True, slots=True)
 class Finding:
+    """One measure (``dimension``) compared between ``reference`` and ``condition``.
+
+    ``basis`` is the reason code behind ``status`` and ``reason`` its words; ``item`` names
+    the subject within the dimension where there is one (a post-test item's id).
+    """
+
     dimension: str
-    group: str
+    group: Group
     unit: str
     reference: str
     condition: str
@@ -95,6 +158,18 @@ class Finding:
     caused_by: str | None = None
     evidence: tuple[Evidence, ...] = ()
     test: StatTest | None = None
+    basis: Basis = Basis.WITHIN_TOLERANCE
+    item: str | None = None
+
+    @property
+    def key(self) -> str:
+        """Unique within one pair: the dimension, with the item where there is one."""
+        return f"{self.dimension}:{self.item}" if self.item else self.dimension
+
+    @property
+    def name(self) -> str:
+        """How reports name it: the dimension, or the item (``item Q6``)."""
+        return f"item {self.item}" if self.item else self.dimension
 
     @property
     def relative_difference(self) -> float | None:
@@ -121,7 +196,7 @@ class Spread:
     """The range of one measure across all versions (reported for three or more)."""
 
     dimension: str
-    group: str
+    group: Group
     unit: str
     minimum: float
     maximum: float

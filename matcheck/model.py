@@ -34,6 +34,18 @@ class Emphasis(StrEnum):
     HIGHLIGHT = "highlight"
 
 
+class Capability(StrEnum):
+    """What a file format can show. A reader declares the ones its format cannot show, and a
+    measure that needs one is then unknown for that document instead of a misleading zero."""
+
+    HEADINGS = "headings"
+    LISTS = "lists"
+    TABLES = "tables"
+    EMPHASIS = "emphasis"
+    UNDERLINE = "underline"
+    HIGHLIGHT = "highlight"
+
+
 @dataclass(frozen=True, slots=True)
 class Span:
     """One kind of emphasis over ``Block.text[start:end]`` (characters, end exclusive)."""
@@ -134,8 +146,8 @@ class Document:
 
     ``excluded`` names what the reader deliberately left out of the lesson text (running
     headers, comments, ...) so a report can say so; ``warnings`` are problems that did not
-    stop the reading; ``undetected`` names the measures this format cannot observe (a PDF
-    does not mark its tables), which are then reported as unknown rather than as zero.
+    stop the reading; ``cannot_show`` names what this format cannot show (a PDF draws
+    underline as shapes), so the measures that need it are unknown rather than zero.
     """
 
     path: str
@@ -145,7 +157,7 @@ class Document:
     pages: int | None = None
     excluded: tuple[str, ...] = ()
     warnings: tuple[str, ...] = field(default=())
-    undetected: tuple[str, ...] = ()
+    cannot_show: frozenset[Capability] = frozenset()
 
     @property
     def name(self) -> str:

@@ -92,9 +92,9 @@ def _strings(path: Path, value: Any, where: str) -> tuple[str, ...]:
 
 def load_study(path: Path) -> Study:
     """Read and validate a study file; raises :class:`ConfigError` naming the key."""
-    from matcheck.compare.engine import expand_manipulated, known_dimensions
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.errors import UsageError
+    from matcheck.intent import expand_manipulated
 
     if not path.is_file():
         raise ConfigError("no such study file", path=str(path))
@@ -135,10 +135,9 @@ def load_study(path: Path) -> Study:
         for item in manipulates:
             try:
                 expand_manipulated([item])
-            except UsageError:
+            except UsageError as problem:
                 raise ConfigError(
-                    f"{where}.manipulates: {item!r} is neither a group nor a measure id "
-                    "(see `matcheck measures`)",
+                    f"{where}.manipulates: " + problem.message.removeprefix("--manipulated "),
                     path=shown,
                 ) from None
         factors.append(Factor(name, levels, manipulates))
@@ -209,7 +208,7 @@ def load_study(path: Path) -> Study:
             )
         overrides.append(f"{key}={value}")
     try:
-        parse_tolerances(overrides, known_dimensions())
+        parse_tolerances(overrides)
     except UsageError as problem:
         raise ConfigError(
             f"[tolerances]: {problem.message.replace('--tolerance ', '')}", path=shown

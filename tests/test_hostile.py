@@ -681,7 +681,7 @@ def _spin(path: Path, limits: ReadLimits) -> Document:
 def _stuck_markdown(monkeypatch: pytest.MonkeyPatch) -> None:
     from matcheck import readers
 
-    monkeypatch.setitem(readers.READERS, "markdown", _spin)
+    monkeypatch.setitem(readers.READERS, "markdown", readers.ReaderSpec("markdown", _spin))
 
 
 @pytest.mark.usefixtures("_stuck_markdown")
@@ -718,7 +718,7 @@ def test_no_time_limit_outside_the_main_thread(
         time.sleep(0.3)
         return readers._text(path, limits)
 
-    monkeypatch.setitem(readers.READERS, "text", slow)
+    monkeypatch.setitem(readers.READERS, "text", readers.ReaderSpec("text", slow))
     path = tmp_path / "slow.txt"
     path.write_text(LESSON, encoding="utf-8")
     results: list[object] = []

@@ -14,12 +14,13 @@ import pytest
 
 from matcheck.api import profile_files
 from matcheck.language.analysis import Analysis, analyze
-from matcheck.measures import CATALOGUE, formulas, measure
+from matcheck.measures import catalogue, formulas, measure
 from matcheck.measures.base import Profile
 from matcheck.model import BlockKind, Emphasis
 from matcheck.readers.builder import NO_EMPHASIS, DocumentBuilder, Run
 from matcheck.settings import Settings
 
+CATALOGUE = catalogue()
 DEMO = Path(__file__).resolve().parent.parent / "fixtures" / "demo"
 EXPECTED = json.loads((DEMO / "expected.json").read_text(encoding="utf-8"))
 

@@ -20,7 +20,7 @@ import pytest
 
 from matcheck.api import Version, compare_versions
 from matcheck.errors import UsageError
-from matcheck.findings import Finding, Report, Status, Tolerance
+from matcheck.findings import Finding, Group, Report, Status, Tolerance
 from matcheck.report.common import format_value
 from matcheck.report.methods_table import (
     MethodsTable,
@@ -213,8 +213,9 @@ def test_title_includes_the_study_title(report: Report, table: MethodsTable) -> 
 def _item(name: str, reference: str, condition: str, shares: tuple[float, float]) -> Finding:
     taught = [share >= 0.6 for share in shares]
     return Finding(
-        dimension=f"item:{name}",
-        group="assessment",
+        dimension="item_coverage",
+        item=name,
+        group=Group.ASSESSMENT,
         unit="share",
         reference=reference,
         condition=condition,

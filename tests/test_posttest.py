@@ -237,7 +237,7 @@ def _lesson(name: str, paragraphs: Sequence[str]) -> Analysis:
 
 
 def _by_item(findings: Sequence[Finding]) -> dict[str, Finding]:
-    return {finding.dimension: finding for finding in findings}
+    return {finding.item or "": finding for finding in findings}
 
 
 def test_item_whose_teaching_paragraph_is_missing_differs(tmp_path: Path) -> None:
@@ -247,8 +247,8 @@ def test_item_whose_teaching_paragraph_is_missing_differs(tmp_path: Path) -> Non
     }
     findings, warnings = assess_posttest([BLOOM_ITEM, GRINDER_ITEM], analyses, [("full", "cut")])
     found = _by_item(findings)
-    assert set(found) == {"item:Q1", "item:Q2"}
-    bloom = found["item:Q1"]
+    assert set(found) == {"Q1", "Q2"}
+    bloom = found["Q1"]
     assert bloom.status is Status.DIFFERS
     assert bloom.group == "assessment" and bloom.unit == "share"
     assert bloom.reason == "Q1 is taught in full but not in cut"
@@ -266,8 +266,8 @@ def test_item_whose_teaching_paragraph_is_missing_differs(tmp_path: Path) -> Non
     # Words only the bloom paragraph holds are missing from "cut".
     for term in ("bloom", "gas", "flavour"):
         assert term in not_taught.counterpart_text
-    assert found["item:Q2"].status is Status.MATCHED
-    assert found["item:Q2"].reason == "taught in both"
+    assert found["Q2"].status is Status.MATCHED
+    assert found["Q2"].reason == "taught in both"
     assert warnings == ()
 
 
@@ -293,9 +293,9 @@ def test_item_no_condition_teaches_is_a_warning() -> None:
         "post-test item Q3 (How many minutes should green tea steep?) is taught in no "
         "condition: the test asks for what no version teaches",
     )
-    tea = [f for f in findings if f.dimension == "item:Q3"]
+    tea = [f for f in findings if f.item == "Q3"]
     assert [f.reason for f in tea] == ["taught in neither", "taught in neither"]
-    grinder = {f.condition: f for f in findings if f.dimension == "item:Q2"}
+    grinder = {f.condition: f for f in findings if f.item == "Q2"}
     # Taught in b only: a-b differs (b teaches it), a-c matches (neither does).
     assert grinder["b"].status is Status.DIFFERS
     assert grinder["b"].reason == "Q2 is taught in b but not in a"
@@ -330,13 +330,13 @@ def test_common_terms_weigh_less_than_distinctive_ones() -> None:
     common = math.log(6 / 6) + 1  # sklearn smoothed idf, df = n = 5
     rare = math.log(6 / 2) + 1  # df = 1
     # Best window in b holds "coffee" only.
-    assert found["item:Q1"].values == {"a": 1.0, "b": pytest.approx(common / (common + rare))}
+    assert found["Q1"].values == {"a": 1.0, "b": pytest.approx(common / (common + rare))}
     # Below one half: an unweighted share would be exactly 1/2.
-    share = found["item:Q1"].values["b"]
+    share = found["Q1"].values["b"]
     assert share is not None and share < 0.5
     # The answer's "bloom" counts double (the module's documented choice).
-    assert found["item:Q2"].values["b"] == pytest.approx(common / (common + 2 * rare))
-    assert found["item:Q1"].status is Status.DIFFERS
+    assert found["Q2"].values["b"] == pytest.approx(common / (common + 2 * rare))
+    assert found["Q1"].status is Status.DIFFERS
     assert warnings == ()
 
 
@@ -402,7 +402,7 @@ def test_demo_posttest_text_only_against_confounded() -> None:
         )
         found = _by_item(findings)
         for item in expected["items"]:
-            finding = found[f"item:{item['id']}"]
+            finding = found[item["id"]]
             versions = set(item["taught_in_versions"])
             if {"text-only", "diagrams-confounded"} <= versions:
                 assert finding.status is Status.MATCHED, item["id"]
@@ -424,5 +424,5 @@ def test_demo_posttest_text_only_against_confounded() -> None:
         untaught = [w for w in warnings if "taught in no condition" in w]
         assert [w.split()[2] for w in untaught] == expected["untaught"]
         assert expected["taught_only_by_removed_paragraph"] == [
-            f.dimension.removeprefix("item:") for f in findings if f.status is Status.DIFFERS
+            f.item for f in findings if f.status is Status.DIFFERS
         ]

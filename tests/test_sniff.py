@@ -16,7 +16,7 @@ import pytest
 from matcheck.errors import EncryptedFile, InputError, NoText, UnsupportedFormat
 from matcheck.limits import ReadLimits
 from matcheck.model import BlockKind, Document
-from matcheck.readers import READERS, Reader, read
+from matcheck.readers import READERS, Reader, ReaderSpec, read
 from matcheck.readers.builder import DocumentBuilder
 from matcheck.readers.sniff import sniff_format
 
@@ -59,7 +59,7 @@ def test_sniff_pdf_named_docx_is_read_as_pdf_with_warning(
     assert sniff_format(path.read_bytes()[:8192], path) == "pdf"
     # The PDF reader is someone else's module: a stub proves the dispatch and the warning.
     calls: list[Path] = []
-    monkeypatch.setitem(READERS, "pdf", _stub_pdf_reader(calls))
+    monkeypatch.setitem(READERS, "pdf", ReaderSpec("pdf", _stub_pdf_reader(calls)))
     document = read(path)
     assert calls == [path]
     assert document.warnings[0] == (

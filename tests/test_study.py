@@ -155,7 +155,7 @@ def _error(tmp_path: Path, text: str) -> str:
         ),
         (
             lambda s: s.replace('manipulates = ["figures"]', 'manipulates = ["pictures"]'),
-            "factors.diagrams.manipulates: 'pictures' is neither a group nor a measure id",
+            "factors.diagrams.manipulates: 'pictures' is neither a group",
         ),
         (
             lambda s: s.replace(

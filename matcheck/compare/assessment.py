@@ -36,9 +36,11 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 from matcheck.compare.content import excerpt
+from matcheck.compare.decide import Observation, decide
 from matcheck.errors import ConfigError
-from matcheck.findings import Evidence, Finding, Status, Tolerance
+from matcheck.findings import Evidence, EvidenceKind, Finding
 from matcheck.language.analysis import Analysis
+from matcheck.measures.comparisons import ITEM_COVERAGE
 from matcheck.measures.key_terms import Passage, passages
 from matcheck.model import BlockKind, Location
 from matcheck.readers.posttest import PostTestItem
@@ -46,10 +48,6 @@ from matcheck.readers.posttest import PostTestItem
 DEFAULT_COVERAGE = 0.6
 # Answer terms weigh this many times a question-only term (judgment call, see above).
 ANSWER_FACTOR = 2.0
-GROUP = "assessment"
-TOLERANCE = Tolerance(
-    absolute=0, reason="an item taught in one condition must be taught in the other"
-)
 # Words of the question shown in a warning.
 QUESTION_EXCERPT_WORDS = 12
 
@@ -173,12 +171,12 @@ def assess_posttest(
                 f"post-test item {item.id} ({excerpt(item.question, QUESTION_EXCERPT_WORDS)}) "
                 "is taught in no condition: the test asks for what no version teaches"
             )
-    findings = [
-        _finding(terms, reference, condition, covered, weighted[terms.item.id], limit)
+    observed = [
+        _observe(terms, reference, condition, covered, weighted[terms.item.id], limit)
         for reference, condition in pairs
         for terms in assessed
     ]
-    return tuple(findings), tuple(warnings)
+    return tuple(decide(observed, {})), tuple(warnings)
 
 
 def _check_ids(items: Sequence[PostTestItem]) -> None:
@@ -193,29 +191,29 @@ def _check_ids(items: Sequence[PostTestItem]) -> None:
         sources[item.id] = item.source
 
 
-def _finding(
+def _observe(
     terms: ItemTerms,
     reference: str,
     condition: str,
     covered: Mapping[tuple[str, str], Coverage],
     weights: Mapping[str, float],
     limit: float,
-) -> Finding:
+) -> Observation:
     item = terms.item
     ref, cond = covered[item.id, reference], covered[item.id, condition]
     taught = {reference: ref.share >= limit, condition: cond.share >= limit}
     evidence: tuple[Evidence, ...] = ()
+    beyond = ""
     if taught[reference] != taught[condition]:
-        status = Status.DIFFERS
         yes, no = (reference, condition) if taught[reference] else (condition, reference)
-        reason = f"{item.id} is taught in {yes} but not in {no}"
+        beyond = f"{item.id} is taught in {yes} but not in {no}"
         good, weak = covered[item.id, yes], covered[item.id, no]
         # Heaviest first: the distinctive words the weak condition lacks.
         missing = sorted(terms.factors.keys() - weak.present, key=lambda t: (-weights[t], t))
         assert good.passage is not None  # taught means some window holds terms
         evidence = (
             Evidence(
-                kind="item_taught",
+                kind=EvidenceKind.ITEM_TAUGHT,
                 condition=yes,
                 text=excerpt(good.passage.text),
                 location=good.location,
@@ -223,7 +221,7 @@ def _finding(
                 counterpart=weak.location,
             ),
             Evidence(
-                kind="item_not_taught",
+                kind=EvidenceKind.ITEM_NOT_TAUGHT,
                 condition=no,
                 text=item.question,
                 location=weak.location,
@@ -232,19 +230,18 @@ def _finding(
                 counterpart_text=f"missing: {', '.join(missing)}",
             ),
         )
-    else:
-        status = Status.MATCHED
-        reason = "taught in both" if taught[reference] else "taught in neither"
-    return Finding(
-        dimension=f"item:{item.id}",
-        group=GROUP,
-        unit="share",
+    spec = ITEM_COVERAGE
+    return Observation(
+        spec=spec,
         reference=reference,
         condition=condition,
-        status=status,
         values={reference: ref.share, condition: cond.share},
         difference=cond.share - ref.share,
-        tolerance=TOLERANCE,
-        reason=reason,
+        # Judged on whether it is taught: one in one condition only is one too many.
+        amount=float(taught[reference] != taught[condition]),
+        tolerance=spec.tolerance,
         evidence=evidence,
+        item=item.id,
+        beyond=beyond,
+        within="taught in both" if taught[reference] else "taught in neither",
     )

@@ -19,7 +19,7 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from matcheck.compare.alignment import Alignment, align
-from matcheck.findings import Evidence
+from matcheck.findings import Evidence, EvidenceKind
 from matcheck.language.analysis import Analysis
 from matcheck.measures.key_terms import Passage, fit_tfidf, passages, term_weights
 
@@ -89,14 +89,18 @@ class PairContent:
     def text_lost(self) -> tuple[Evidence, ...]:
         """Runs dropped inside paired passages whose content the version lacks elsewhere."""
         return tuple(
-            e for e in self.edits if e.kind == "text_removed" and (e.weight or 0) >= NOVEL_SHARE
+            e
+            for e in self.edits
+            if e.kind is EvidenceKind.TEXT_REMOVED and (e.weight or 0) >= NOVEL_SHARE
         )
 
     @property
     def text_new(self) -> tuple[Evidence, ...]:
         """Runs added inside paired passages with content the reference lacks."""
         return tuple(
-            e for e in self.edits if e.kind == "text_added" and (e.weight or 0) >= NOVEL_SHARE
+            e
+            for e in self.edits
+            if e.kind is EvidenceKind.TEXT_ADDED and (e.weight or 0) >= NOVEL_SHARE
         )
 
 
@@ -151,7 +155,7 @@ def _coverage(model: ContentModel, source: str, target: str) -> Coverage:
         where = src.passages[int(column.argmax())]
         evidence.append(
             Evidence(
-                kind="term_missing",
+                kind=EvidenceKind.TERM_MISSING,
                 condition=source,
                 text=term,
                 location=where.location,
@@ -171,7 +175,7 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
         [item.text for item in other.passages],
     )
 
-    def passage_evidence(kind: str, name: str, item: Passage, **extra: object) -> Evidence:
+    def passage_evidence(kind: EvidenceKind, name: str, item: Passage, **extra: object) -> Evidence:
         return Evidence(
             kind=kind,
             condition=name,
@@ -181,14 +185,16 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
         )
 
     removed = tuple(
-        passage_evidence("passage_removed", reference, ref.passages[i]) for i in alignment.removed
+        passage_evidence(EvidenceKind.PASSAGE_REMOVED, reference, ref.passages[i])
+        for i in alignment.removed
     )
     added = tuple(
-        passage_evidence("passage_added", version, other.passages[j]) for j in alignment.added
+        passage_evidence(EvidenceKind.PASSAGE_ADDED, version, other.passages[j])
+        for j in alignment.added
     )
     rewritten = tuple(
         passage_evidence(
-            "passage_rewritten",
+            EvidenceKind.PASSAGE_REWRITTEN,
             reference,
             ref.passages[pair.left[0]],
             similarity=pair.similarity,
@@ -199,7 +205,7 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
     )
     moved = tuple(
         passage_evidence(
-            "passage_moved",
+            EvidenceKind.PASSAGE_MOVED,
             reference,
             ref.passages[pair.left[0]],
             similarity=pair.similarity,
@@ -269,7 +275,7 @@ def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[E
             if tag in ("delete", "replace") and i2 - i1 >= MIN_RUN_WORDS:
                 evidence.append(
                     Evidence(
-                        kind="text_removed",
+                        kind=EvidenceKind.TEXT_REMOVED,
                         condition=ref.name,
                         text=excerpt(" ".join(w.text for w in left[i1:i2])),
                         location=ref.passages[pair.left[0]].location,
@@ -280,7 +286,7 @@ def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[E
             if tag in ("insert", "replace") and j2 - j1 >= MIN_RUN_WORDS:
                 evidence.append(
                     Evidence(
-                        kind="text_added",
+                        kind=EvidenceKind.TEXT_ADDED,
                         condition=other.name,
                         text=excerpt(" ".join(w.text for w in right[j1:j2])),
                         location=other.passages[pair.right[0]].location,

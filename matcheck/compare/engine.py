@@ -1,62 +1,21 @@
 """Compare measured versions: one finding per measure and pair, root causes named.
 
-Detecting (the measures, the content model) is kept apart from deciding (the tolerance and
-the declared manipulation, :mod:`matcheck.compare.verdicts`) and from explaining
-(:mod:`matcheck.compare.causes`, which links echoes to their root cause and attaches the
-located evidence).
+Detecting (the measures, the content model) is kept apart from deciding
+(:mod:`matcheck.compare.decide`, the one place where a status is chosen) and from locating
+(:mod:`matcheck.compare.evidence`, which attaches what in the text shows a difference).
 """
 
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping, Sequence
 
-from matcheck.compare import causes
-from matcheck.compare.causes import IMPLIED
 from matcheck.compare.content import PairContent, build_model, compare_content
-from matcheck.compare.verdicts import decide, decide_mean, decide_sections
-from matcheck.errors import UsageError
-from matcheck.findings import Finding, Spread, Status, Tolerance
-from matcheck.measures import CATALOGUE
-from matcheck.measures.base import Group, Profile
-
-CONTENT_DIMENSIONS = {
-    "key_term_coverage": "share",
-    "passages_removed": "passages",
-    "passages_added": "passages",
-    "passages_rewritten": "passages",
-    "passages_moved": "passages",
-    "text_removed": "runs",
-    "text_added": "runs",
-}
-# key_terms is a profile listing; the comparison judges content by coverage and alignment.
-NOT_COMPARED = {"key_terms"}
-
-
-def known_dimensions() -> dict[str, str]:
-    """Every comparable measure id -> its group."""
-    dims = {spec.id: spec.group.value for spec in CATALOGUE.values() if spec.id not in NOT_COMPARED}
-    dims.update(dict.fromkeys(CONTENT_DIMENSIONS, Group.CONTENT.value))
-    return dims
-
-
-def expand_manipulated(names: Iterable[str]) -> dict[str, str]:
-    """Measure id -> the declared name that makes it intended. Unknown names raise."""
-    dims = known_dimensions()
-    groups = {group.value for group in Group}
-    intended: dict[str, str] = {}
-    for name in names:
-        if name in groups:
-            intended.update({d: name for d, g in dims.items() if g == name and d not in intended})
-        elif name in dims:
-            intended.setdefault(name, name)
-            for implied in IMPLIED.get(name, ()):
-                intended.setdefault(implied, name)
-        else:
-            raise UsageError(
-                f"--manipulated {name!r} is neither a group "
-                f"({', '.join(sorted(groups))}) nor a measure id (see `matcheck measures`)"
-            )
-    return intended
+from matcheck.compare.decide import Observation, decide, decide_mean, decide_sections
+from matcheck.compare.evidence import locate
+from matcheck.findings import Basis, Finding, Group, Spread, Status, Tolerance
+from matcheck.intent import expand_manipulated
+from matcheck.measures import comparisons, registry
+from matcheck.measures.base import MeasureSpec, Profile, Role
 
 
 def compare_profiles(
@@ -85,132 +44,101 @@ def compare_pairs(
         intended = expand_manipulated(manipulated)
         ref, profile = profiles[reference], profiles[name]
         content = compare_content(model, reference, name)
-        pair = list(_measure_findings(ref, profile, reference, name, intended, tolerances))
-        pair.extend(_content_findings(content, profiles, reference, name, intended, tolerances))
-        findings.extend(causes.explain(pair, ref, profile, content))
+        observed = list(_measured(ref, profile, reference, name, tolerances))
+        observed.extend(_content(content, reference, name, tolerances))
+        findings.extend(locate(decide(observed, intended), ref, profile, content))
     spreads = _spreads(profiles, findings) if len(profiles) > 2 else ()
     return tuple(findings), spreads
 
 
-def _ids(*profiles: Profile) -> list[str]:
-    seen: dict[str, None] = {}
+def _specs(*profiles: Profile) -> list[MeasureSpec]:
+    """The compared specs the profiles hold, in the order they were measured."""
+    seen: dict[str, MeasureSpec] = {}
     for profile in profiles:
         for measurement in profile.measurements:
-            if measurement.id not in NOT_COMPARED:
-                seen.setdefault(measurement.id, None)
-    return list(seen)
+            if measurement.spec.role is Role.MEASURED:
+                seen.setdefault(measurement.id, measurement.spec)
+    return list(seen.values())
 
 
-def _measure_findings(
+def _measured(
     ref: Profile,
     other: Profile,
     ref_name: str,
     name: str,
-    intended: Mapping[str, str],
     tolerances: Mapping[str, Tolerance],
-) -> Iterable[Finding]:
-    for measure_id in _ids(ref, other):
-        spec = CATALOGUE.get(measure_id) or next(
-            m.spec for p in (ref, other) for m in p.measurements if m.id == measure_id
-        )
-        ref_m, other_m = ref.get(measure_id), other.get(measure_id)
+) -> Iterable[Observation]:
+    for spec in _specs(ref, other):
+        ref_m, other_m = ref.get(spec.id), other.get(spec.id)
         # A heading level absent from one version is zero there, not unknown.
         a = ref_m.value if ref_m else 0.0
         b = other_m.value if other_m else 0.0
         if a is None and b is None:
             continue
-        tolerance = tolerances.get(measure_id, Tolerance(reason="exact by default"))
-        test = None
-        if measure_id in intended:
-            status, reason = decide(
-                a, b, tolerance, intended=True, intended_by=intended[measure_id]
-            )
-        elif ref_m and other_m and ref_m.sample and other_m.sample:
-            status, reason, test = decide_mean(ref_m.sample, other_m.sample, tolerance)
-            if status is not Status.DIFFERS:
-                local = decide_sections(ref_m, other_m, tolerance)
-                if local is not None:
-                    status, reason, test = local
-        else:
-            status, reason = decide(a, b, tolerance, intended=False)
-        yield Finding(
-            dimension=measure_id,
-            group=spec.group.value,
-            unit=spec.unit,
+        tolerance = tolerances.get(spec.id, spec.tolerance)
+        difference = None if a is None or b is None else b - a
+        judged = None
+        if ref_m and other_m and ref_m.sample and other_m.sample:
+            judged = decide_mean(ref_m.sample, other_m.sample, tolerance)
+            if judged[0] is not Basis.BEYOND_TOLERANCE:
+                judged = decide_sections(ref_m, other_m, tolerance) or judged
+        yield Observation(
+            spec=spec,
             reference=ref_name,
             condition=name,
-            status=status,
             values={ref_name: a, name: b},
-            difference=None if a is None or b is None else b - a,
+            difference=difference,
+            amount=difference,
             tolerance=tolerance,
-            reason=reason,
-            test=test,
+            base=a or 0.0,
+            judged=judged,
         )
 
 
-def _content_findings(
+def _content(
     content: PairContent,
-    profiles: Mapping[str, Profile],
     ref_name: str,
     name: str,
-    intended: Mapping[str, str],
     tolerances: Mapping[str, Tolerance],
-) -> Iterable[Finding]:
-    group = Group.CONTENT.value
-
-    def verdict(dimension: str, shortfall: float) -> tuple[Status, str, Tolerance]:
-        tolerance = tolerances.get(dimension, Tolerance())
-        status, reason = decide(
-            0.0,
-            shortfall,
-            tolerance,
-            intended=dimension in intended,
-            intended_by=intended.get(dimension, ""),
-        )
-        return status, reason, tolerance
+) -> Iterable[Observation]:
+    def tolerance(spec: MeasureSpec) -> Tolerance:
+        return tolerances.get(spec.id, spec.tolerance)
 
     cover_ref = content.coverage_of_reference
     cover_other = content.coverage_of_version
     shortfall = 1.0 - min(cover_ref.share, cover_other.share)
-    status, reason, tolerance = verdict("key_term_coverage", shortfall)
-    yield Finding(
-        dimension="key_term_coverage",
-        group=group,
-        unit="share",
+    spec = comparisons.KEY_TERM_COVERAGE
+    yield Observation(
+        spec=spec,
         reference=ref_name,
         condition=name,
-        status=status,
         values={ref_name: cover_other.share, name: cover_ref.share},
         difference=shortfall,
-        tolerance=tolerance,
-        reason=reason,
+        amount=shortfall,
+        tolerance=tolerance(spec),
         evidence=cover_ref.missing + cover_other.missing,
     )
     counts = {
-        "passages_removed": content.removed,
-        "passages_added": content.added,
-        "passages_rewritten": content.rewritten,
-        "passages_moved": content.moved,
-        "text_removed": content.text_lost,
-        "text_added": content.text_new,
+        comparisons.PASSAGES_REMOVED: content.removed,
+        comparisons.PASSAGES_ADDED: content.added,
+        comparisons.PASSAGES_REWRITTEN: content.rewritten,
+        comparisons.PASSAGES_MOVED: content.moved,
+        comparisons.TEXT_REMOVED: content.text_lost,
+        comparisons.TEXT_ADDED: content.text_new,
     }
     sizes = {
         ref_name: float(len(content.alignment.pairs) + len(content.removed)),
         name: float(len(content.alignment.pairs) + len(content.added)),
     }
-    for dimension, evidence in counts.items():
-        status, reason, tolerance = verdict(dimension, float(len(evidence)))
-        yield Finding(
-            dimension=dimension,
-            group=group,
-            unit="passages",
+    for spec, evidence in counts.items():
+        yield Observation(
+            spec=spec,
             reference=ref_name,
             condition=name,
-            status=status,
             values=dict(sizes),
             difference=float(len(evidence)),
-            tolerance=tolerance,
-            reason=reason,
+            amount=float(len(evidence)),
+            tolerance=tolerance(spec),
             evidence=evidence,
         )
 
@@ -218,7 +146,7 @@ def _content_findings(
 def _spreads(profiles: Mapping[str, Profile], findings: Sequence[Finding]) -> tuple[Spread, ...]:
     worst: dict[str, Status] = {}
     order = [Status.DIFFERS, Status.INCONCLUSIVE, Status.INTENDED, Status.MATCHED]
-    info: dict[str, tuple[str, str]] = {}
+    info: dict[str, tuple[Group, str]] = {}
     for finding in findings:
         current = worst.get(finding.dimension, Status.MATCHED)
         if order.index(finding.status) < order.index(current):
@@ -227,7 +155,8 @@ def _spreads(profiles: Mapping[str, Profile], findings: Sequence[Finding]) -> tu
         info[finding.dimension] = (finding.group, finding.unit)
     spreads = []
     for dimension, status in worst.items():
-        if dimension in CONTENT_DIMENSIONS:
+        spec = registry.spec(dimension)
+        if spec is not None and spec.from_zero:
             continue
         values = [
             value

@@ -1,45 +1,55 @@
 """Measures of one lesson version.
 
-:data:`MEASURE_GROUPS` lists the measure functions in report order; :data:`CATALOGUE` every
-measure spec by id. A new measure is a spec plus a function in one module of this package
-and one line here (see DEVELOPERS.md).
+Each module of this package declares its measures' specs and one function; the registrations
+below put them in the catalogue (:mod:`matcheck.measures.registry`), in report order. A new
+measure is one module plus one line here (see DEVELOPERS.md).
 """
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 from matcheck.language.analysis import Analysis
-from matcheck.measures import figures, key_terms, length, readability, signaling, structure
-from matcheck.measures.base import Group, MeasureFunction, Measurement, MeasureSpec, Profile
+from matcheck.measures import (
+    comparisons,
+    figures,
+    key_terms,
+    length,
+    readability,
+    registry,
+    signaling,
+    structure,
+)
+from matcheck.measures.base import Group, Measurement, MeasureSpec, Profile
 from matcheck.settings import Settings
 
-MEASURE_GROUPS: tuple[tuple[Group, MeasureFunction], ...] = (
-    (Group.LENGTH, length.measure_length),
-    (Group.READABILITY, readability.measure_readability),
-    (Group.CONTENT, key_terms.measure_key_terms),
-    (Group.FIGURES, figures.measure_figures),
-    (Group.STRUCTURE, structure.measure_structure),
-    (Group.SIGNALING, signaling.measure_signaling),
-)
+registry.register_measures(length.measure_length, length.SPECS)
+registry.register_measures(readability.measure_readability, readability.SPECS)
+registry.register_measures(key_terms.measure_key_terms, key_terms.SPECS)
+registry.register_measures(figures.measure_figures, figures.SPECS)
+registry.register_measures(structure.measure_structure, structure.SPECS)
+registry.register_measures(signaling.measure_signaling, signaling.SPECS)
+registry.register_specs(comparisons.SPECS)
 
-CATALOGUE: dict[str, MeasureSpec] = {
-    spec.id: spec
-    for module in (length, readability, key_terms, figures, structure, signaling)
-    for spec in module.SPECS
-}
+
+def catalogue() -> dict[str, MeasureSpec]:
+    """Every registered spec by id, in report order."""
+    return {spec.id: spec for spec in registry.specs()}
 
 
 def measure(analysis: Analysis, settings: Settings) -> Profile:
     """Every measure of one analysed version."""
+    document = analysis.document
     measurements: list[Measurement] = []
-    unseen = set(analysis.document.undetected)
-    for _group, function in MEASURE_GROUPS:
+    for function in registry.MEASURE_FUNCTIONS:
         for measurement in function(analysis, settings):
-            if measurement.id in unseen:
+            needs = measurement.spec.needs
+            if needs is not None and needs in document.cannot_show:
                 # The format cannot show it: unknown, never a misleading zero.
-                note = f"{analysis.document.format} cannot show this"
-                measurement = Measurement(measurement.spec, None, note=note)
+                note = f"{document.format} cannot show {needs.value}"
+                measurement = replace(measurement, value=None, items=(), note=note)
             measurements.append(measurement)
     return Profile(analysis, tuple(measurements))
 
 
-__all__ = ["CATALOGUE", "Group", "MeasureSpec", "Measurement", "Profile", "measure"]
+__all__ = ["Group", "MeasureSpec", "Measurement", "Profile", "catalogue", "measure"]

@@ -4,25 +4,81 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
+from matcheck.findings import Tolerance
 from matcheck.language.analysis import Analysis
 from matcheck.language.words import iter_words
-from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.measures.base import EXACT, JUDGMENT, Group, Measurement, MeasureSpec, causes
 from matcheck.model import BlockKind
 from matcheck.settings import Settings
 
 F = Group.FIGURES
-FIGURES = MeasureSpec("figures", F, "figures", "Pictures in the lesson")
+FIGURES = MeasureSpec(
+    "figures",
+    F,
+    "figures",
+    "Pictures in the lesson",
+    Tolerance(reason=EXACT),
+    label="Figures",
+    phrase="the number of figures",
+)
+# Everything below follows the number of figures: an echo of it, intended when it is.
 PIXEL_AREA = MeasureSpec(
-    "figure_pixel_area", F, "megapixels", "Total pixel area of the readable pictures"
+    "figure_pixel_area",
+    F,
+    "megapixels",
+    "Total pixel area of the readable pictures",
+    Tolerance(relative=0.10, reason=f"10%; {JUDGMENT}"),
+    follows=causes("figures"),
+    implied_by="figures",
 )
 DISPLAY_AREA = MeasureSpec(
-    "figure_display_area", F, "cm²", "Total displayed area, where the format states it"
+    "figure_display_area",
+    F,
+    "cm²",
+    "Total displayed area, where the format states it",
+    Tolerance(relative=0.10, reason=f"10%; {JUDGMENT}"),
+    follows=causes("figures"),
+    implied_by="figures",
+    label="Figure area (cm²)",
+    phrase="figure area",
 )
-CAPTIONS = MeasureSpec("captions", F, "captions", "Figure captions")
-CAPTION_WORDS = MeasureSpec("caption_words", F, "words", "Words in captions")
-NO_ALT = MeasureSpec("figures_without_alt_text", F, "figures", "Pictures without alt text")
+CAPTIONS = MeasureSpec(
+    "captions",
+    F,
+    "captions",
+    "Figure captions",
+    Tolerance(reason=EXACT),
+    follows=causes("figures"),
+    implied_by="figures",
+    label="Captions",
+    phrase="the number of captions",
+)
+CAPTION_WORDS = MeasureSpec(
+    "caption_words",
+    F,
+    "words",
+    "Words in captions",
+    Tolerance(relative=0.10, absolute=2, reason=f"10% (at least 2); {JUDGMENT}"),
+    follows=causes("figures"),
+    implied_by="figures",
+)
+NO_ALT = MeasureSpec(
+    "figures_without_alt_text",
+    F,
+    "figures",
+    "Pictures without alt text",
+    Tolerance(reason=EXACT),
+    follows=causes("figures"),
+    implied_by="figures",
+)
 UNREADABLE = MeasureSpec(
-    "figures_unreadable", F, "figures", "Pictures whose image could not be read or measured"
+    "figures_unreadable",
+    F,
+    "figures",
+    "Pictures whose image could not be read or measured",
+    Tolerance(reason="an unreadable picture cannot be compared"),
+    follows=causes("figures"),
+    implied_by="figures",
 )
 SPECS = (FIGURES, PIXEL_AREA, DISPLAY_AREA, CAPTIONS, CAPTION_WORDS, NO_ALT, UNREADABLE)
 

@@ -16,7 +16,7 @@ from typing import TYPE_CHECKING
 
 from matcheck.language.analysis import PASSAGE_KINDS, Analysis, BlockAnalysis
 from matcheck.language.words import Word
-from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.measures.base import Group, Measurement, MeasureSpec, Role
 from matcheck.model import BlockKind, Location
 from matcheck.settings import Settings
 
@@ -24,7 +24,12 @@ if TYPE_CHECKING:
     from scipy.sparse import csr_matrix
 
 KEY_TERMS = MeasureSpec(
-    "key_terms", Group.CONTENT, "terms", "Key terms by TF-IDF over the lesson's passages"
+    "key_terms",
+    Group.CONTENT,
+    "terms",
+    "Key terms by TF-IDF over the lesson's passages",
+    role=Role.LISTING,
+    listing="weight",
 )
 SPECS = (KEY_TERMS,)
 

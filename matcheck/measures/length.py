@@ -4,21 +4,62 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
+from matcheck.findings import Tolerance
 from matcheck.language.analysis import Analysis
-from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.measures.base import JUDGMENT, Cause, Group, Measurement, MeasureSpec, causes
 from matcheck.model import BlockKind
 from matcheck.settings import Settings
 
 WORDS = MeasureSpec(
-    "words", Group.LENGTH, "words", "Words in the lesson text (headings to footnotes, no captions)"
+    "words",
+    Group.LENGTH,
+    "words",
+    "Words in the lesson text (headings to footnotes, no captions)",
+    Tolerance(relative=0.05, reason=f"5% of the reference; {JUDGMENT}"),
+    label="Words",
+    phrase="length",
 )
-SENTENCES = MeasureSpec("sentences", Group.LENGTH, "sentences", "Sentences in the running prose")
-PARAGRAPHS = MeasureSpec("paragraphs", Group.LENGTH, "paragraphs", "Body paragraphs")
+SENTENCES = MeasureSpec(
+    "sentences",
+    Group.LENGTH,
+    "sentences",
+    "Sentences in the running prose",
+    Tolerance(relative=0.10, absolute=1, reason=f"10% of the reference; {JUDGMENT}"),
+    # Fewer, longer sentences or simply less text.
+    follows=causes("words_per_sentence", "words"),
+    label="Sentences",
+    phrase="the number of sentences",
+)
+PARAGRAPHS = MeasureSpec(
+    "paragraphs",
+    Group.LENGTH,
+    "paragraphs",
+    "Body paragraphs",
+    Tolerance(relative=0.10, absolute=1, reason=f"10% (at least one paragraph); {JUDGMENT}"),
+    # A list turned into prose (or back) moves both the other way; else passages went or came.
+    follows=(Cause("list_items", opposite=True), *causes("passages_removed", "passages_added")),
+    label="Paragraphs",
+    phrase="the number of paragraphs",
+)
 CHARACTERS = MeasureSpec(
-    "characters", Group.LENGTH, "characters", "Characters of the lesson text, spaces excluded"
+    "characters",
+    Group.LENGTH,
+    "characters",
+    "Characters of the lesson text, spaces excluded",
+    Tolerance(relative=0.05, reason="follows words: the same 5%"),
+    follows=causes("words"),
+    implied_by="words",
 )
 READING_TIME = MeasureSpec(
-    "reading_time", Group.LENGTH, "minutes", "Words divided by the reading rate (--wpm)"
+    "reading_time",
+    Group.LENGTH,
+    "minutes",
+    "Words divided by the reading rate (--wpm)",
+    Tolerance(relative=0.05, reason="follows words: the same 5%"),
+    follows=causes("words"),
+    implied_by="words",
+    label="Reading time (min)",
+    phrase="estimated reading time",
 )
 SPECS = (WORDS, SENTENCES, PARAGRAPHS, CHARACTERS, READING_TIME)
 

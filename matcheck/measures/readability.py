@@ -10,34 +10,121 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
+from matcheck.findings import Tolerance
 from matcheck.language.analysis import PROSE_KINDS, Analysis
 from matcheck.measures import formulas
-from matcheck.measures.base import Group, Measurement, MeasureSpec
+from matcheck.measures.base import JUDGMENT, Group, Measurement, MeasureSpec, causes
 from matcheck.settings import Settings
 
 R = Group.READABILITY
-FRE = MeasureSpec("flesch_reading_ease", R, "points", "Flesch Reading Ease (Flesch 1948)")
-FKGL = MeasureSpec(
-    "flesch_kincaid_grade", R, "grade", "Flesch–Kincaid Grade Level (Kincaid et al. 1975)"
+GRADE = Tolerance(absolute=1, reason="one school grade")
+SENTENCE_AND_SYLLABLES = causes("words_per_sentence", "syllables_per_word")
+FRE = MeasureSpec(
+    "flesch_reading_ease",
+    R,
+    "points",
+    "Flesch Reading Ease (Flesch 1948)",
+    Tolerance(absolute=5, reason=f"half of one 10-point Flesch (1949) band; {JUDGMENT}"),
+    follows=SENTENCE_AND_SYLLABLES,
+    label="Flesch Reading Ease",
+    phrase="Flesch Reading Ease",
 )
-FOG = MeasureSpec("gunning_fog", R, "grade", "Gunning fog index (Gunning 1952)")
-SMOG = MeasureSpec("smog", R, "grade", "SMOG grade, regression form (McLaughlin 1969)")
-CLI = MeasureSpec("coleman_liau", R, "grade", "Coleman–Liau index (Coleman & Liau 1975)")
+FKGL = MeasureSpec(
+    "flesch_kincaid_grade",
+    R,
+    "grade",
+    "Flesch–Kincaid Grade Level (Kincaid et al. 1975)",
+    GRADE,
+    follows=SENTENCE_AND_SYLLABLES,
+    label="Flesch–Kincaid grade",
+    phrase="Flesch–Kincaid grade level",
+)
+FOG = MeasureSpec(
+    "gunning_fog",
+    R,
+    "grade",
+    "Gunning fog index (Gunning 1952)",
+    GRADE,
+    follows=SENTENCE_AND_SYLLABLES,
+)
+SMOG = MeasureSpec(
+    "smog",
+    R,
+    "grade",
+    "SMOG grade, regression form (McLaughlin 1969)",
+    Tolerance(absolute=1, reason="one school grade (its standard error is 1.5)"),
+    follows=SENTENCE_AND_SYLLABLES,
+)
+CLI = MeasureSpec(
+    "coleman_liau",
+    R,
+    "grade",
+    "Coleman–Liau index (Coleman & Liau 1975)",
+    GRADE,
+    follows=causes("words_per_sentence", "long_words_share"),
+)
 ARI = MeasureSpec(
-    "automated_readability", R, "grade", "Automated Readability Index (Senter & Smith 1967)"
+    "automated_readability",
+    R,
+    "grade",
+    "Automated Readability Index (Senter & Smith 1967)",
+    GRADE,
+    follows=causes("words_per_sentence", "long_words_share"),
 )
 DALE_CHALL = MeasureSpec(
-    "dale_chall", R, "score", "Dale–Chall readability score, 1948 formula (Dale & Chall 1948)"
+    "dale_chall",
+    R,
+    "score",
+    "Dale–Chall readability score, 1948 formula (Dale & Chall 1948)",
+    Tolerance(absolute=0.5, reason="half a score point; one point spans about two grades"),
+    follows=causes("words_per_sentence", "rare_words_share"),
 )
-WPS = MeasureSpec("words_per_sentence", R, "words", "Mean words per sentence")
-SPW = MeasureSpec("syllables_per_word", R, "syllables", "Mean syllables per word")
+WPS = MeasureSpec(
+    "words_per_sentence",
+    R,
+    "words",
+    "Mean words per sentence",
+    Tolerance(
+        absolute=2.5, reason="≈ one Flesch–Kincaid grade (0.39 grade per word of sentence length)"
+    ),
+    decimals=1,
+    label="Words per sentence",
+    phrase="words per sentence",
+)
+SPW = MeasureSpec(
+    "syllables_per_word",
+    R,
+    "syllables",
+    "Mean syllables per word",
+    Tolerance(
+        absolute=0.085, reason="≈ one Flesch–Kincaid grade (11.8 grades per syllable per word)"
+    ),
+    label="Syllables per word",
+    phrase="syllables per word",
+)
 LONG = MeasureSpec(
-    "long_words_share", R, "share", "Share of words longer than six letters (Björnsson 1968)"
+    "long_words_share",
+    R,
+    "share",
+    "Share of words longer than six letters (Björnsson 1968)",
+    Tolerance(absolute=0.03, reason=f"3 percentage points; {JUDGMENT}"),
 )
 RARE = MeasureSpec(
-    "rare_words_share", R, "share", "Share of words not on the Dale–Chall familiar-word list"
+    "rare_words_share",
+    R,
+    "share",
+    "Share of words not on the Dale–Chall familiar-word list",
+    Tolerance(absolute=0.03, reason=f"3 percentage points; {JUDGMENT}"),
+    label="Words not on the Dale–Chall list",
+    phrase="the share of words not on the Dale–Chall list",
 )
-MTLD = MeasureSpec("mtld", R, "tokens", "Lexical diversity, MTLD (McCarthy & Jarvis 2010)")
+MTLD = MeasureSpec(
+    "mtld",
+    R,
+    "tokens",
+    "Lexical diversity, MTLD (McCarthy & Jarvis 2010)",
+    Tolerance(relative=0.15, reason=f"15% of the reference; {JUDGMENT}"),
+)
 SPECS = (FRE, FKGL, FOG, SMOG, CLI, ARI, DALE_CHALL, WPS, SPW, LONG, RARE, MTLD)
 
 

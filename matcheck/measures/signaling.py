@@ -11,21 +11,54 @@ from __future__ import annotations
 from collections import Counter
 from collections.abc import Iterator
 
+from matcheck.findings import Tolerance
 from matcheck.language.analysis import Analysis
-from matcheck.measures.base import Group, Measurement, MeasureSpec
-from matcheck.model import Block, BlockKind, Emphasis
+from matcheck.measures.base import JUDGMENT, Group, Measurement, MeasureSpec, causes
+from matcheck.model import Block, BlockKind, Capability, Emphasis
 from matcheck.settings import Settings
 
 G = Group.SIGNALING
+WORDS_TOLERANCE = Tolerance(relative=0.05, absolute=2, reason=f"5% (at least 2 words); {JUDGMENT}")
 EMPHASIZED = MeasureSpec(
-    "emphasized_words", G, "words", "Words with any emphasis (bold, italic, underline, highlight)"
+    "emphasized_words",
+    G,
+    "words",
+    "Words with any emphasis (bold, italic, underline, highlight)",
+    WORDS_TOLERANCE,
+    needs=Capability.EMPHASIS,
+    label="Emphasized words",
+    phrase="the number of emphasized words",
 )
+# Underline and highlight need more than emphasis: a PDF shows bold and italic only.
+KIND_NEEDS = {
+    Emphasis.BOLD: Capability.EMPHASIS,
+    Emphasis.ITALIC: Capability.EMPHASIS,
+    Emphasis.UNDERLINE: Capability.UNDERLINE,
+    Emphasis.HIGHLIGHT: Capability.HIGHLIGHT,
+}
 KIND_SPECS = {
-    kind: MeasureSpec(f"{kind.value}_words", G, "words", f"Words in {kind.value}")
+    kind: MeasureSpec(
+        f"{kind.value}_words",
+        G,
+        "words",
+        f"Words in {kind.value}",
+        WORDS_TOLERANCE,
+        follows=causes("emphasized_words"),
+        implied_by="emphasized_words",
+        needs=KIND_NEEDS[kind],
+    )
     for kind in Emphasis
 }
 TERMS = MeasureSpec(
-    "emphasized_terms", G, "terms", "Distinct emphasised terms (a run of emphasised words)"
+    "emphasized_terms",
+    G,
+    "terms",
+    "Distinct emphasised terms (a run of emphasised words)",
+    Tolerance(relative=0.05, absolute=1, reason=f"5% (at least one term); {JUDGMENT}"),
+    follows=causes("emphasized_words"),
+    implied_by="emphasized_words",
+    needs=Capability.EMPHASIS,
+    listing="count",
 )
 SPECS = (EMPHASIZED, *KIND_SPECS.values(), TERMS)
 BODY_KINDS = frozenset(

@@ -4,26 +4,78 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
+from matcheck.findings import Tolerance
 from matcheck.language.analysis import Analysis
-from matcheck.measures.base import Group, Measurement, MeasureSpec
-from matcheck.model import BlockKind
+from matcheck.measures.base import EXACT, Group, Measurement, MeasureSpec, causes
+from matcheck.model import BlockKind, Capability
 from matcheck.settings import Settings
 
 S = Group.STRUCTURE
-HEADINGS = MeasureSpec("headings", S, "headings", "Headings at every level")
+EXACTLY = Tolerance(reason=EXACT)
+HEADINGS = MeasureSpec(
+    "headings",
+    S,
+    "headings",
+    "Headings at every level",
+    EXACTLY,
+    needs=Capability.HEADINGS,
+    label="Headings",
+    phrase="the number of headings",
+)
 SECTIONS = MeasureSpec(
-    "sections", S, "sections", "Sections: headings at the top level used below the title"
+    "sections",
+    S,
+    "sections",
+    "Sections: headings at the top level used below the title",
+    EXACTLY,
+    follows=causes("headings"),
+    implied_by="headings",
+    needs=Capability.HEADINGS,
 )
 LISTS = MeasureSpec(
-    "lists", S, "lists", "Bulleted or numbered lists (a nested list is part of its outer list)"
+    "lists",
+    S,
+    "lists",
+    "Bulleted or numbered lists (a nested list is part of its outer list)",
+    EXACTLY,
+    follows=causes("list_items"),
+    implied_by="list_items",
+    needs=Capability.LISTS,
 )
-LIST_ITEMS = MeasureSpec("list_items", S, "items", "List items")
-TABLES = MeasureSpec("tables", S, "tables", "Tables")
+LIST_ITEMS = MeasureSpec(
+    "list_items",
+    S,
+    "items",
+    "List items",
+    EXACTLY,
+    needs=Capability.LISTS,
+    label="List items",
+    phrase="the number of list items",
+)
+TABLES = MeasureSpec(
+    "tables",
+    S,
+    "tables",
+    "Tables",
+    EXACTLY,
+    needs=Capability.TABLES,
+    label="Tables",
+    phrase="the number of tables",
+)
 ALWAYS_LEVELS = 3
 
 
 def heading_level_spec(level: int) -> MeasureSpec:
-    return MeasureSpec(f"headings_level_{level}", S, "headings", f"Headings at level {level}")
+    return MeasureSpec(
+        f"headings_level_{level}",
+        S,
+        "headings",
+        f"Headings at level {level}",
+        EXACTLY,
+        follows=causes("headings"),
+        implied_by="headings",
+        needs=Capability.HEADINGS,
+    )
 
 
 SPECS = (

@@ -9,12 +9,12 @@ its bytes say, with a warning. Readers know nothing of measures or reports.
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import replace
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 from matcheck.errors import InputError, LimitExceeded, MatcheckError, NoText
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
-from matcheck.model import Document
+from matcheck.model import Capability, Document
 from matcheck.readers.builder import MAX_WARNINGS
 from matcheck.readers.deadline import deadline
 from matcheck.readers.sniff import EXTENSIONS, sniff_format
@@ -46,36 +46,46 @@ def _text(path: Path, limits: ReadLimits) -> Document:
     return read_text(path, limits)
 
 
+@dataclass(frozen=True, slots=True)
+class ReaderSpec:
+    """One registered reader: its format name, the function, and what the format cannot show
+    (``why`` says so in the docs and in the note of each measure left unknown)."""
+
+    format: str
+    read: Reader
+    cannot_show: frozenset[Capability] = frozenset()
+    why: str = ""
+
+
 # Format name -> reader. Readers are imported only when used, so ``--help`` stays fast.
-READERS: dict[str, Reader] = {
-    "docx": _docx,
-    "pdf": _pdf,
-    "markdown": _markdown,
-    "text": _text,
-}
+READERS: dict[str, ReaderSpec] = {}
 
 
-# What a format cannot show, so its measure is unknown rather than zero.
-UNDETECTED: dict[str, tuple[str, ...]] = {
-    # Underline and highlight are drawn shapes in a PDF, not text properties; the reader sees
-    # only bold and italic (font names). Tables are inferred from aligned columns and count.
-    "pdf": ("underline_words", "highlight_words"),
-    # Plain text has no markup at all: no headings, lists, tables or emphasis to count.
-    "text": (
-        "headings",
-        *(f"headings_level_{level}" for level in range(1, 7)),
-        "sections",
-        "lists",
-        "list_items",
-        "tables",
-        "emphasized_words",
-        "bold_words",
-        "italic_words",
-        "underline_words",
-        "highlight_words",
-        "emphasized_terms",
-    ),
-}
+def register_reader(spec: ReaderSpec) -> ReaderSpec:
+    """Add a reader (the format must also be recognised by :mod:`matcheck.readers.sniff`)."""
+    READERS[spec.format] = spec
+    return spec
+
+
+register_reader(ReaderSpec("docx", _docx))
+register_reader(
+    ReaderSpec(
+        "pdf",
+        _pdf,
+        frozenset({Capability.UNDERLINE, Capability.HIGHLIGHT}),
+        "underline and highlight are drawn shapes in a PDF, not text properties; the reader "
+        "sees bold and italic from font names",
+    )
+)
+register_reader(ReaderSpec("markdown", _markdown))
+register_reader(
+    ReaderSpec(
+        "text",
+        _text,
+        frozenset(Capability),
+        "plain text has no markup: no headings, lists, tables or emphasis to count",
+    )
+)
 
 
 def read(path: str | Path, limits: ReadLimits = DEFAULT_LIMITS) -> Document:
@@ -130,10 +140,11 @@ def _read(path: Path, limits: ReadLimits) -> Document:
         raise InputError(f"cannot be read ({error.strerror})", path=shown) from None
     fmt = sniff_format(head, path)
     with deadline(limits.max_read_seconds, shown):
-        document = READERS[fmt](path, limits)
+        reader = READERS[fmt]
+        document = reader.read(path, limits)
     document = _flag_huge_images(document, limits)
-    if fmt in UNDETECTED:
-        document = replace(document, undetected=UNDETECTED[fmt])
+    if reader.cannot_show:
+        document = replace(document, cannot_show=reader.cannot_show)
     expected = EXTENSIONS.get(path.suffix.lower())
     if expected is not None and expected != fmt and {expected, fmt} != {"markdown", "text"}:
         document = replace(

@@ -52,5 +52,5 @@ def join_documents(parts: Sequence[Document]) -> Document:
         pages=sum(p for p in pages if p) if any(pages) else None,
         excluded=tuple(excluded),
         warnings=tuple(warnings),
-        undetected=tuple(dict.fromkeys(u for part in parts for u in part.undetected)),
+        cannot_show=frozenset().union(*(part.cannot_show for part in parts)),
     )

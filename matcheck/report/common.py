@@ -2,39 +2,19 @@
 
 from __future__ import annotations
 
-from matcheck.findings import Evidence, Finding, Report, Status
+from matcheck.findings import Evidence, EvidenceKind, Finding, Group, Report, Status
+from matcheck.measures import registry
+from matcheck.measures.base import UNIT_DECIMALS, Role
 
 STATUS_ORDER = (Status.DIFFERS, Status.INCONCLUSIVE, Status.INTENDED, Status.MATCHED)
-GROUP_ORDER = (
-    "length",
-    "readability",
-    "content",
-    "figures",
-    "structure",
-    "signaling",
-    "assessment",
-)
-
-_DECIMALS = {
-    "share": 3,
-    "grade": 1,
-    "points": 1,
-    "score": 2,
-    "minutes": 1,
-    "words": 0,
-    "syllables": 2,
-    "tokens": 1,
-    "megapixels": 2,
-    "cm²": 1,
-}
+GROUP_ORDER = tuple(Group)
 
 
 def format_value(value: float | None, unit: str, dimension: str = "") -> str:
     if value is None:
         return "—"
-    decimals = _DECIMALS.get(unit, 0)
-    if dimension in ("words_per_sentence",):
-        decimals = 1
+    spec = registry.spec(dimension)
+    decimals = spec.shown_decimals if spec else UNIT_DECIMALS.get(unit, 0)
     if unit == "share":
         return f"{value * 100:.1f}%"
     if decimals == 0 and float(value).is_integer():
@@ -46,7 +26,8 @@ def format_difference(finding: Finding, *, short: bool = False) -> str:
     """The difference; ``short`` gives only the percentage for relatively judged measures."""
     if finding.difference is None:
         return "—"
-    if finding.group == "content":
+    spec = registry.spec(finding.dimension)
+    if spec is not None and spec.role is Role.PAIRWISE:
         if finding.dimension == "key_term_coverage":
             if short:
                 return f"−{finding.difference * 100:.1f}%" if finding.difference else "±0.0%"
@@ -90,44 +71,17 @@ def sorted_findings(findings: tuple[Finding, ...] | list[Finding]) -> list[Findi
     return sorted(findings, key=key)
 
 
-# How each kind of evidence reads, by direction: {here} is the version the location points
-# into, {there} the other version of the pair.
-PHRASES = {
-    "passage_removed": "passage of {here} missing from {there}",
-    "passage_added": "passage of {here} not in {there}",
-    "passage_rewritten": "passage of {here} rewritten in {there}",
-    "passage_moved": "passage of {here} moved in {there}",
-    "text_removed": "text of {here} cut from the matching passage of {there}",
-    "text_added": "text added in {here}, not in {there}",
-    "term_missing": "key term of {here} not found in {there}",
-    "heading_removed": "heading of {here} missing from {there}",
-    "heading_added": "heading of {here} not in {there}",
-    "list_item_removed": "list item of {here} missing from {there}",
-    "list_item_added": "list item of {here} not in {there}",
-    "table_cell_removed": "table cell of {here} missing from {there}",
-    "table_cell_added": "table cell of {here} not in {there}",
-    "figure_added": "figure of {here} not in {there}",
-    "figure_removed": "figure of {here} not in {there}",
-    "emphasis_added": "emphasis in {here}, none in {there}",
-    "emphasis_removed": "emphasis in {here}, none in {there}",
-    "sentence_length_changed": "sentence length in {here}",
-    "item_taught": "taught in {here}",
-    "item_not_taught": "not taught in {here}",
-}
-
-
 def describe_evidence(item: Evidence, pair: tuple[str, str]) -> str:
     """One line for a piece of evidence of the comparison ``pair`` (reference, condition),
     saying which version has what the other lacks."""
     here = item.condition
     there = pair[1] if here == pair[0] else pair[0]
-    phrase = PHRASES.get(item.kind, item.kind.replace("_", " ") + " in {here}")
-    label = phrase.format(here=here, there=there)
+    label = item.kind.phrase.format(here=here, there=there)
     where = f" — {item.location.describe()}" if item.location else ""
     extra = ""
     if item.similarity is not None:
         extra += f" (similarity {item.similarity:.2f})"
-    if item.kind == "term_missing" and item.weight is not None:
+    if item.kind is EvidenceKind.TERM_MISSING and item.weight is not None:
         extra += f" (weight {item.weight * 100:.1f}%)"
     line = f"{label}{where}: “{item.text}”{extra}"
     if item.counterpart is not None:
@@ -135,7 +89,7 @@ def describe_evidence(item: Evidence, pair: tuple[str, str]) -> str:
         if item.counterpart_text:
             counterpart += f": “{item.counterpart_text}”"
         line += counterpart
-    elif item.counterpart_text and item.kind != "term_missing":
+    elif item.counterpart_text and item.kind is not EvidenceKind.TERM_MISSING:
         line += f" ({item.counterpart_text})"
     return line
 

@@ -70,7 +70,7 @@ def render_github(report: Report) -> str:
             continue
         path, line, evidence = _place(finding, files)
         message = (
-            f"{finding.condition} vs {finding.reference}: {finding.dimension} "
+            f"{finding.condition} vs {finding.reference}: {finding.name} "
             f"{finding.status.value} ({format_difference(finding)}; tolerance "
             f"{format_tolerance(finding)})"
         )

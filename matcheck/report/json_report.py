@@ -27,7 +27,7 @@ def location_dict(location: Location | None) -> dict[str, Any] | None:
 
 def _evidence(item: Evidence) -> dict[str, Any]:
     return {
-        "kind": item.kind,
+        "kind": item.kind.value,
         "condition": item.condition,
         "text": item.text,
         "location": location_dict(item.location),
@@ -42,7 +42,8 @@ def finding_dict(finding: Finding) -> dict[str, Any]:
     tolerance = finding.tolerance
     return {
         "dimension": finding.dimension,
-        "group": finding.group,
+        "item": finding.item,
+        "group": finding.group.value,
         "unit": finding.unit,
         "reference": finding.reference,
         "condition": finding.condition,
@@ -58,6 +59,7 @@ def finding_dict(finding: Finding) -> dict[str, Any]:
             "description": tolerance.describe(finding.unit),
             "reason": tolerance.reason,
         },
+        "basis": finding.basis.value,
         "reason": finding.reason,
         "caused_by": finding.caused_by,
         "test": None
@@ -108,7 +110,7 @@ def report_dict(report: Report) -> dict[str, Any]:
         "spread": [
             {
                 "dimension": s.dimension,
-                "group": s.group,
+                "group": s.group.value,
                 "unit": s.unit,
                 "min": s.minimum,
                 "max": s.maximum,

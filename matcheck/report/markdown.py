@@ -58,7 +58,7 @@ def render_markdown(report: Report) -> str:
         lines += header
         matched = []
         for finding, is_echo in ordered_with_echoes(findings):
-            label = f"↳ {finding.dimension}" if is_echo else finding.dimension
+            label = f"↳ {finding.name}" if is_echo else finding.name
             verdict = ICONS[finding.status]
             if is_echo and finding.caused_by:
                 verdict += f" (follows `{finding.caused_by}`)"
@@ -82,7 +82,7 @@ def render_markdown(report: Report) -> str:
         located = [f for f in findings if f.evidence and f.status is not Status.MATCHED]
         for finding in located:
             lines.append(
-                f"<details><summary>{ICONS[finding.status]}: <code>{finding.dimension}</code> — "
+                f"<details><summary>{ICONS[finding.status]}: <code>{finding.name}</code> — "
                 f"{len(finding.evidence)} located</summary>"
             )
             lines.append("")

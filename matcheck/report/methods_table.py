@@ -148,7 +148,7 @@ def methods_table(
     by_dimension: dict[str, list[Finding]] = {}
     for finding in report.findings:
         by_dimension.setdefault(finding.dimension, []).append(finding)
-    items = [f for f in report.findings if f.dimension.startswith("item:")]
+    items = [f for f in report.findings if f.item is not None]
     threshold = coverage_threshold
     if threshold is None and items:
         # Imported only here: the module pulls in the language pipeline.
@@ -299,7 +299,7 @@ def _posttest_row(
         for name, value in finding.values.items():
             items = taught.setdefault(name, set())
             if value is not None and value >= threshold:
-                items.add(finding.dimension)
+                items.add(finding.key)
     values = tuple(format_value(len(taught[n]), "items") if n in taught else "—" for n in columns)
     gaps = [
         len(taught[p.condition]) - len(taught[p.reference])
@@ -331,8 +331,8 @@ def _untaught(findings: Sequence[Finding], threshold: float) -> _Items:
     best: dict[str, float] = {}
     for finding in findings:
         shares = [v for v in finding.values.values() if v is not None]
-        best[finding.dimension] = max([best.get(finding.dimension, 0.0), *shares])
-    untaught = tuple(d.removeprefix("item:") for d, share in best.items() if share < threshold)
+        best[finding.item or ""] = max([best.get(finding.item or "", 0.0), *shares])
+    untaught = tuple(d for d, share in best.items() if share < threshold)
     return _Items(len(best), threshold, untaught)
 
 

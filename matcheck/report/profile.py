@@ -17,12 +17,9 @@ if TYPE_CHECKING:
 TERMS_SHOWN = 8
 
 
-LISTED = {"key_terms": "weight", "emphasized_terms": "count"}
-
-
 def _value(measurement: Measurement) -> Any:
     """A listing measure's value is its list (possibly empty); others their number."""
-    field = LISTED.get(measurement.spec.id)
+    field = measurement.spec.listing
     if field == "weight":
         return [{"term": term, "weight": round(weight, 6)} for term, weight in measurement.items]
     if field == "count":
@@ -45,7 +42,7 @@ def profiles_dict(profiles: Sequence[Profile]) -> dict[str, Any]:
                         "group": m.spec.group.value,
                         "value": _value(m),
                         "unit": m.spec.unit,
-                        **({"count": m.value} if m.spec.id in LISTED else {}),
+                        **({"count": m.value} if m.spec.listing else {}),
                         **({"note": m.note} if m.note else {}),
                     }
                     for m in profile.measurements

@@ -78,7 +78,7 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
         for finding, is_echo in ordered_with_echoes(findings):
             if not show_matched and finding.status is Status.MATCHED:
                 continue
-            label = f" ↳ {finding.dimension}" if is_echo else finding.dimension
+            label = f" ↳ {finding.name}" if is_echo else finding.name
             table.add_row(
                 finding.status.value,
                 label,
@@ -102,7 +102,7 @@ def render_table(report: Report, console: Console, *, show_matched: bool = True)
             for finding in located:
                 console.print(
                     f"[{STYLES[finding.status]}]{finding.status.value}[/] {finding.group} · "
-                    f"{finding.dimension}",
+                    f"{finding.name}",
                     highlight=False,
                 )
                 if finding.status is Status.INCONCLUSIVE:
@@ -186,7 +186,7 @@ def _render_changes(report: Report, console: Console) -> None:
     for finding in changed:
         table.add_row(
             finding.condition,
-            finding.dimension,
+            finding.name,
             format_value(finding.values.get(finding.reference), finding.unit, finding.dimension),
             format_value(finding.values.get(finding.condition), finding.unit, finding.dimension),
             format_difference(finding, short=True),

@@ -1,0 +1,98 @@
+"""Dimensions found by comparing two versions rather than by measuring one.
+
+The content comparison (:mod:`matcheck.compare.content`) and the post-test coverage
+(:mod:`matcheck.compare.assessment`) compute these; their specs live here with the others so
+that tolerances, labels and reports derive from one place. Each is judged from zero: a count
+of passages without a counterpart, or a shortfall of coverage.
+"""
+
+from __future__ import annotations
+
+from matcheck.findings import Group, Tolerance
+from matcheck.measures.base import JUDGMENT, MeasureSpec, Role
+
+C = Group.CONTENT
+
+KEY_TERM_COVERAGE = MeasureSpec(
+    "key_term_coverage",
+    C,
+    "share",
+    "Shortfall of the weaker direction's coverage of the other version's key terms",
+    Tolerance(
+        absolute=0.10,
+        reason=f"each version carries at least 90% of the other's key-term weight; {JUDGMENT}",
+    ),
+    role=Role.PAIRWISE,
+    label="Key-term coverage",
+    phrase="key-term coverage",
+)
+PASSAGES_REMOVED = MeasureSpec(
+    "passages_removed",
+    C,
+    "passages",
+    "Passages of the reference with no counterpart in the version",
+    Tolerance(reason="every passage of the reference has a counterpart"),
+    role=Role.PAIRWISE,
+)
+PASSAGES_ADDED = MeasureSpec(
+    "passages_added",
+    C,
+    "passages",
+    "Passages of the version with no counterpart in the reference",
+    Tolerance(reason="every passage has a counterpart in the reference"),
+    role=Role.PAIRWISE,
+)
+PASSAGES_REWRITTEN = MeasureSpec(
+    "passages_rewritten",
+    C,
+    "passages",
+    "Passages whose counterpart is weak (rewritten)",
+    Tolerance(reason="a weak counterpart is a content change"),
+    role=Role.PAIRWISE,
+)
+PASSAGES_MOVED = MeasureSpec(
+    "passages_moved",
+    C,
+    "passages",
+    "Passages whose counterpart stands elsewhere in the order",
+    Tolerance(reason="order is part of instruction"),
+    role=Role.PAIRWISE,
+)
+TEXT_REMOVED = MeasureSpec(
+    "text_removed",
+    C,
+    "runs",
+    "Runs of sentences cut from a matched passage, their content found nowhere else",
+    Tolerance(
+        reason="a sentence cut from a passage, with content found nowhere else in the version"
+    ),
+    role=Role.PAIRWISE,
+)
+TEXT_ADDED = MeasureSpec(
+    "text_added",
+    C,
+    "runs",
+    "Runs of sentences added to a matched passage, their content nowhere in the reference",
+    Tolerance(reason="a sentence added to a passage, with content the reference has nowhere"),
+    role=Role.PAIRWISE,
+)
+ITEM_COVERAGE = MeasureSpec(
+    "item_coverage",
+    Group.ASSESSMENT,
+    "share",
+    "Coverage of each post-test item's terms; taught at the study's threshold",
+    Tolerance(reason="an item taught in one condition must be taught in the other"),
+    role=Role.ITEM,
+    label="Post-test item",
+)
+
+SPECS = (
+    KEY_TERM_COVERAGE,
+    PASSAGES_REMOVED,
+    PASSAGES_ADDED,
+    PASSAGES_REWRITTEN,
+    PASSAGES_MOVED,
+    TEXT_REMOVED,
+    TEXT_ADDED,
+    ITEM_COVERAGE,
+)
