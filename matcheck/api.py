@@ -10,11 +10,11 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from matcheck.errors import UsageError
-from matcheck.findings import Condition, Finding, Report
+from matcheck.findings import Condition, Report
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 from matcheck.measures.base import Profile
 from matcheck.model import Document
-from matcheck.settings import DEFAULT_WPM, Settings
+from matcheck.settings import DEFAULT_COMPARISON, DEFAULT_WPM, ComparisonSettings, Settings
 from matcheck.study import Study
 
 
@@ -97,6 +97,7 @@ def compare_versions(
     tolerance_overrides: Sequence[str] = (),
     settings: Settings | None = None,
     limits: ReadLimits = DEFAULT_LIMITS,
+    comparison: ComparisonSettings = DEFAULT_COMPARISON,
 ) -> Report:
     """Compare every version with the reference (the first unless named)."""
     from matcheck.compare.engine import compare_profiles
@@ -116,7 +117,7 @@ def compare_versions(
     expand_manipulated(manipulated)
     tolerances = parse_tolerances(tolerance_overrides)
     profiles, conditions = _measure_versions(versions, reference, settings, limits)
-    findings, spreads = compare_profiles(profiles, reference, manipulated, tolerances)
+    findings, spreads = compare_profiles(profiles, reference, manipulated, tolerances, comparison)
     return Report(
         conditions=tuple(conditions),
         reference=reference,
@@ -124,6 +125,7 @@ def compare_versions(
         findings=findings,
         spreads=spreads,
         words_per_minute=settings.words_per_minute,
+        settings=comparison,
     )
 
 
@@ -167,19 +169,25 @@ def _study_report(
     tolerances = parse_tolerances([*study.tolerances, *extra_tolerances])
     pairs = comparisons(study)
     findings, spreads = compare_pairs(
-        profiles, [(p.reference, p.condition, p.manipulated) for p in pairs], tolerances
+        profiles,
+        [(p.reference, p.condition, p.manipulated) for p in pairs],
+        tolerances,
+        study.comparison,
     )
     warnings: tuple[str, ...] = ()
     if study.posttest:
-        from matcheck.compare.assessment import assess_posttest
-        from matcheck.readers.posttest import read_posttest
+        from matcheck.compare.assessment import PostTest, assess_posttest
+        from matcheck.language.analysis import analyze
+        from matcheck.readers.posttest import items_document, read_posttest
 
-        items = [item for path in study.posttest for item in read_posttest(path, limits)]
+        items = tuple(item for path in study.posttest for item in read_posttest(path, limits))
+        document, slots = items_document(items)
         extra, warnings = assess_posttest(
-            items,
+            PostTest(items, analyze(document), slots),
             {name: profile.analysis for name, profile in profiles.items()},
             [(p.reference, p.condition) for p in pairs],
-            threshold=study.coverage_threshold,
+            threshold=study.comparison.coverage_threshold,
+            answer_factor=study.comparison.answer_factor,
         )
         findings = (*findings, *extra)
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
@@ -193,6 +201,7 @@ def _study_report(
         pairings=tuple(Pairing(p.reference, p.condition, p.manipulated, p.factor) for p in pairs),
         title=study.title,
         warnings=warnings,
+        settings=study.comparison,
     )
 
 
@@ -214,7 +223,7 @@ def check_against(
 
     from matcheck.compare.engine import compare_pairs
     from matcheck.compare.tolerances import parse_tolerances
-    from matcheck.findings import Status
+    from matcheck.findings import Regression, RegressionKind, Status
     from matcheck.revision import export_folder
     from matcheck.study import load_study
 
@@ -233,43 +242,44 @@ def check_against(
         before = _study_report(
             old_study, old_profiles, old_conditions, old_settings, extra_tolerances, limits
         )
-    summaries: list[str] = []
+    summaries: list[Regression] = []
     both: dict[str, Profile] = dict(profiles)
     pairs: list[tuple[str, str, tuple[str, ...]]] = []
     for condition in study.conditions:
         if condition.name not in old_profiles:
-            summaries.append(f"{condition.name} is new since {revision}")
+            summaries.append(Regression(RegressionKind.NEW, condition.name, revision))
             continue
         label = f"{condition.name}@{revision}"
         both[label] = old_profiles[condition.name]
         pairs.append((label, condition.name, ()))
     tolerances = parse_tolerances([*study.tolerances, *extra_tolerances])
-    changes, _ = compare_pairs(both, pairs, tolerances)
+    changes, _ = compare_pairs(both, pairs, tolerances, study.comparison)
     for _label, name, _ in pairs:
-        changed = [
+        changed = tuple(
             f
             for f in changes
             if f.condition == name and f.status is Status.DIFFERS and f.caused_by is None
-        ]
+        )
         if changed:
-            summaries.append(
-                f"{name} changed since {revision}: " + ", ".join(_change_phrase(f) for f in changed)
-            )
+            summaries.append(Regression(RegressionKind.CHANGED, name, revision, changes=changed))
     held = {
-        (f.reference, f.condition, f.dimension)
+        (f.reference, f.condition, f.key)
         for f in before.findings
         if f.status in (Status.MATCHED, Status.INTENDED)
     }
     broken: dict[tuple[str, str], list[str]] = {}
     for finding in now.root_findings(Status.DIFFERS):
-        if (finding.reference, finding.condition, finding.dimension) in held:
-            broken.setdefault((finding.condition, finding.reference), []).append(
-                f"{finding.group} ({finding.dimension})"
-            )
+        if (finding.reference, finding.condition, finding.key) in held:
+            broken.setdefault((finding.condition, finding.reference), []).append(finding.key)
     regressions = [
-        f"{condition} now differs from {reference} in {', '.join(dict.fromkeys(dims))}, "
-        f"which matched at {revision}"
-        for (condition, reference), dims in broken.items()
+        Regression(
+            RegressionKind.BROKEN,
+            condition,
+            revision,
+            reference=reference,
+            dimensions=tuple(dict.fromkeys(keys)),
+        )
+        for (condition, reference), keys in broken.items()
     ]
     return replace(
         now,
@@ -277,15 +287,3 @@ def check_against(
         changes=tuple(changes),
         regressions=(*summaries, *regressions),
     )
-
-
-def _change_phrase(finding: Finding) -> str:
-    if finding.dimension.startswith("passages_") and finding.difference:
-        what = finding.dimension.removeprefix("passages_")
-        count = int(finding.difference)
-        return f"{count} passage{'s' if count != 1 else ''} {what}"
-    if finding.difference is not None:
-        relative = finding.relative_difference
-        change = f"{finding.dimension} {finding.difference:+.4g}"
-        return f"{change} ({relative * 100:+.1f}%)" if relative is not None else change
-    return finding.dimension

@@ -1,38 +1,25 @@
-"""Check every study below a folder, in parallel, and summarise.
+"""Check every study below a folder, in parallel.
 
 A study file is any ``*.toml`` below the folder whose top level has ``[[conditions]]``
 (``pyproject.toml`` and other TOML files are passed over). Studies are checked in worker
 processes (``--jobs``, default: every core); each worker loads the language pipeline once and
-reuses it. A study that cannot be read is reported with its one-line error and counts as a
-failure (exit status 2 when nothing differs, else 1).
+reuses it. A study that cannot be read gets its one-line error and the others go on. This
+module returns data; rendering and the exit status are the CLI's.
 """
 
 from __future__ import annotations
 
 import os
-import sys
 import tomllib
 from collections.abc import Sequence
 from concurrent.futures import ProcessPoolExecutor, as_completed
-from dataclasses import dataclass
 from pathlib import Path
-from typing import TYPE_CHECKING
 
-from matcheck.errors import EXIT_DIFFERS, EXIT_INPUT, EXIT_MATCHED, MatcheckError, UsageError
-from matcheck.findings import SCHEMA_VERSION, Report
+from matcheck.errors import MatcheckError, UsageError
+from matcheck.findings import StudyResult
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 
-if TYPE_CHECKING:
-    from rich.console import Console
-
 SKIPPED_FOLDERS = {".git", ".venv", "venv", "node_modules", "__pycache__", ".tox", "build", "dist"}
-
-
-@dataclass(frozen=True, slots=True)
-class StudyResult:
-    path: Path
-    report: Report | None
-    error: str | None
 
 
 def find_studies(folder: Path) -> list[Path]:
@@ -69,8 +56,8 @@ def check_one(
         else:
             report = check_study(load_study(path), extra_tolerances=tolerances, limits=limits)
     except MatcheckError as problem:
-        return StudyResult(path, None, str(problem))
-    return StudyResult(path, report, None)
+        return StudyResult(str(path), None, str(problem))
+    return StudyResult(str(path), report, None)
 
 
 def warm_up() -> None:
@@ -104,7 +91,7 @@ def check_all(
         raise UsageError(f"--jobs must be at least 1, got {workers}")
     if workers == 1 or len(paths) == 1:
         return [check_one(path, against, tolerances, limits) for path in paths]
-    results: dict[Path, StudyResult] = {}
+    results: dict[str, StudyResult] = {}
     import multiprocessing
 
     context = None
@@ -128,111 +115,23 @@ def check_all(
             for future in as_completed(futures):
                 result = future.result()
                 results[result.path] = result
-    return [results[path] for path in paths]
+    return [results[str(path)] for path in paths]
 
 
 def check_folder(
     folder: Path,
     *,
     jobs: int | None,
-    format: str,
-    output: Path | None,
     against: str | None,
     tolerances: Sequence[str],
     limits: ReadLimits = DEFAULT_LIMITS,
-) -> int:
-    """The ``check DIR`` command: returns the exit status."""
-    import json
-
-    from matcheck.cli import emit, emit_rich
-    from matcheck.report.json_report import report_dict
-
+    progress: bool = False,
+) -> tuple[list[Path], list[StudyResult]]:
+    """The study files below ``folder`` and the result of checking each."""
     paths = find_studies(folder)
     if not paths:
         raise UsageError(f"{folder}: no study files (TOML with [[conditions]]) below this folder")
     results = check_all(
-        paths,
-        jobs=jobs,
-        against=against,
-        tolerances=tolerances,
-        progress=sys.stderr.isatty(),
-        limits=limits,
+        paths, jobs=jobs, against=against, tolerances=tolerances, progress=progress, limits=limits
     )
-    inputs = [*paths]
-    if format == "json":
-        data = {
-            "schema_version": SCHEMA_VERSION,
-            "studies": [
-                {
-                    "path": str(r.path),
-                    "error": r.error,
-                    "report": report_dict(r.report) if r.report else None,
-                }
-                for r in results
-            ],
-        }
-        emit(json.dumps(data, indent=2, ensure_ascii=False) + "\n", output, inputs)
-    elif format in ("markdown", "github"):
-        from matcheck.report.github import render_github
-        from matcheck.report.markdown import render_markdown
-
-        render = render_markdown if format == "markdown" else render_github
-        parts = []
-        for result in results:
-            if result.report is not None:
-                parts.append(render(result.report))
-            elif format == "github":
-                parts.append(f"::error file={result.path}::{result.error}\n")
-            else:
-                parts.append(f"## {result.path}\n\n❗ {result.error}\n")
-        emit("\n".join(parts), output, inputs)
-    else:
-        emit_rich(lambda console: _summary(results, console), output, inputs)
-    if any(r.report is not None and r.report.differs for r in results):
-        return EXIT_DIFFERS
-    if any(r.error for r in results):
-        return EXIT_INPUT
-    return EXIT_MATCHED
-
-
-def _summary(results: Sequence[StudyResult], console: Console) -> None:
-    from rich.markup import escape
-    from rich.table import Table
-
-    from matcheck.findings import Status
-
-    table = Table(title="Studies", title_justify="left", header_style="bold")
-    for column in ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Problem"):
-        table.add_column(column)
-    for result in results:
-        if result.report is None:
-            table.add_row(
-                escape(str(result.path)),
-                "—",
-                "error",
-                "—",
-                "—",
-                escape(result.error or ""),
-                style="red",
-            )
-            continue
-        report = result.report
-        differ = len(report.root_findings(Status.DIFFERS))
-        unclear = len(report.root_findings(Status.INCONCLUSIVE))
-        verdict = "differs" if report.differs else "matched"
-        table.add_row(
-            escape(str(result.path)),
-            str(len(report.conditions)),
-            verdict,
-            str(differ),
-            str(unclear),
-            "",
-            style="bold red" if report.differs else None,
-        )
-    console.print(table)
-    failing = sum(1 for r in results if r.report is not None and r.report.differs)
-    errors = sum(1 for r in results if r.error)
-    console.print(
-        f"{len(results)} studies: {failing} with possible confounds, {errors} unreadable. "
-        "Run `matcheck check STUDY.toml` on one for its located findings."
-    )
+    return paths, results

@@ -7,29 +7,21 @@ at start-up, so ``matcheck --help`` is instant. Exit statuses (one place, matche
 
 from __future__ import annotations
 
-import io
 import sys
 import traceback
-from collections.abc import Callable, Sequence
-from enum import StrEnum
+from collections.abc import Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING, Annotated
 
 import typer
 
 from matcheck import __version__
-from matcheck.errors import (
-    EXIT_BUG,
-    EXIT_DIFFERS,
-    EXIT_INPUT,
-    EXIT_MATCHED,
-    MatcheckError,
-    UsageError,
-)
+from matcheck.errors import EXIT_BUG, EXIT_INPUT, EXIT_MATCHED, MatcheckError, UsageError
+from matcheck.findings import exit_status
+from matcheck.report.formatter import Formatter, RenderOptions, Subject
+from matcheck.report.registry import get, names, render_text
 
 if TYPE_CHECKING:
-    from rich.console import Console
-
     from matcheck.findings import Report
     from matcheck.limits import ReadLimits
 
@@ -45,17 +37,6 @@ app = typer.Typer(
     rich_markup_mode=None,
 )
 _state = {"debug": False}
-
-
-class CompareFormat(StrEnum):
-    table = "table"
-    json = "json"
-    markdown = "markdown"
-
-
-class ProfileFormat(StrEnum):
-    table = "table"
-    json = "json"
 
 
 def _version(value: bool) -> None:
@@ -101,7 +82,9 @@ Output = Annotated[
 @app.command()
 def profile(
     files: Files,
-    format: Annotated[ProfileFormat, typer.Option("--format", "-f")] = ProfileFormat.table,
+    format: Annotated[
+        str, typer.Option("--format", "-f", help=_formats(Subject.PROFILES))
+    ] = "table",
     wpm: Wpm = 238.0,
     output: Output = None,
     allow_outside: AllowOutside = False,
@@ -111,15 +94,9 @@ def profile(
     from matcheck.api import profile_files
     from matcheck.settings import Settings
 
+    formatter = get(Subject.PROFILES, format)
     profiles = profile_files(files, Settings(words_per_minute=wpm), _limits(allow_outside, limit))
-    if format is ProfileFormat.json:
-        from matcheck.report.profile import render_profiles_json
-
-        emit(render_profiles_json(profiles), output, files)
-    else:
-        from matcheck.report.profile import render_profiles_table
-
-        emit_rich(lambda console: render_profiles_table(profiles, console), output, files)
+    deliver(formatter, profiles, output, files)
     return EXIT_MATCHED
 
 
@@ -146,7 +123,7 @@ def compare(
         typer.Option("--tolerance", "-t", help="MEASURE=VALUE or MEASURE=VALUE%. Repeatable."),
     ] = None,
     wpm: Wpm = 238.0,
-    format: Annotated[CompareFormat, typer.Option("--format", "-f")] = CompareFormat.table,
+    format: Annotated[str, typer.Option("--format", "-f", help=_formats(Subject.REPORT))] = "table",
     output: Output = None,
     allow_outside: AllowOutside = False,
     limit: Limits = None,
@@ -155,6 +132,7 @@ def compare(
     from matcheck.api import Version, compare_versions, version_names
     from matcheck.settings import Settings
 
+    formatter = get(Subject.REPORT, format)
     name_list = [n.strip() for n in names.split(",")] if names else None
     labels = version_names(files, name_list)
     versions = [Version(label, (path,)) for label, path in zip(labels, files, strict=True)]
@@ -166,46 +144,8 @@ def compare(
         settings=Settings(words_per_minute=wpm),
         limits=_limits(allow_outside, limit),
     )
-    render_report(report, format.value, output, files)
-    return EXIT_DIFFERS if report.differs else EXIT_MATCHED
-
-
-def render_report(
-    report: Report,
-    format: str,
-    output: Path | None,
-    inputs: Sequence[Path],
-    *,
-    show_matched: bool = True,
-) -> None:
-    """Render a report in ``format`` to stdout or ``output``."""
-    if format == "json":
-        from matcheck.report.json_report import render_json
-
-        emit(render_json(report), output, inputs)
-    elif format == "markdown":
-        from matcheck.report.markdown import render_markdown
-
-        emit(render_markdown(report), output, inputs)
-    elif format == "github":
-        from matcheck.report.github import render_github
-
-        emit(render_github(report), output, inputs)
-    else:
-        from matcheck.report.table import render_table
-
-        emit_rich(
-            lambda console: render_table(report, console, show_matched=show_matched),
-            output,
-            inputs,
-        )
-
-
-class CheckFormat(StrEnum):
-    table = "table"
-    json = "json"
-    markdown = "markdown"
-    github = "github"
+    deliver(formatter, report, output, files)
+    return exit_status([report])
 
 
 @app.command()
@@ -226,7 +166,7 @@ def check(
         int | None,
         typer.Option("--jobs", "-j", help="Studies checked at once (default: all cores)."),
     ] = None,
-    format: Annotated[CheckFormat, typer.Option("--format", "-f")] = CheckFormat.table,
+    format: Annotated[str, typer.Option("--format", "-f", help=_formats(Subject.REPORT))] = "table",
     output: Output = None,
     all_rows: Annotated[
         bool, typer.Option("--all", help="List matched measures too in the table.")
@@ -237,72 +177,64 @@ def check(
     """Check a study (or every study below a folder) as its design requires."""
     from matcheck.study import load_study
 
+    limits = _limits(allow_outside, limit)
+    options = RenderOptions(show_matched=all_rows)
     if study.is_dir():
         from matcheck.batch import check_folder
 
-        return check_folder(
+        formatter = get(Subject.STUDIES, format)
+        paths, results = check_folder(
             study,
             jobs=jobs,
-            format=format.value,
-            output=output,
             against=against,
             tolerances=tolerance or (),
-            limits=_limits(allow_outside, limit),
+            limits=limits,
+            progress=sys.stderr.isatty(),
         )
+        reports = [r.report for r in results if r.report is not None]
+        deliver(formatter, results, output, paths, options)
+        _step_summary(formatter, reports, paths)
+        return exit_status(reports, failed=sum(1 for r in results if r.error))
+    formatter = get(Subject.REPORT, format)
     loaded = load_study(study)
     if against:
         from matcheck.api import check_against
 
-        report = check_against(
-            study, against, extra_tolerances=tolerance or (), limits=_limits(allow_outside, limit)
-        )
+        report = check_against(study, against, extra_tolerances=tolerance or (), limits=limits)
     else:
         from matcheck.api import check_study
 
-        report = check_study(
-            loaded, extra_tolerances=tolerance or (), limits=_limits(allow_outside, limit)
-        )
+        report = check_study(loaded, extra_tolerances=tolerance or (), limits=limits)
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
-    render_report(report, format.value, output, inputs, show_matched=all_rows)
-    return EXIT_DIFFERS if report.differs else EXIT_MATCHED
-
-
-class TableFormat(StrEnum):
-    markdown = "markdown"
-    csv = "csv"
-    latex = "latex"
-    docx = "docx"
-    text = "text"
+    deliver(formatter, report, output, inputs, options)
+    _step_summary(formatter, [report], inputs)
+    return exit_status([report])
 
 
 @app.command()
 def table(
     study: Annotated[Path, typer.Argument(help="A study file (TOML; docs/study-file.md).")],
-    format: Annotated[TableFormat, typer.Option("--format", "-f")] = TableFormat.markdown,
+    format: Annotated[
+        str, typer.Option("--format", "-f", help=_formats(Subject.METHODS))
+    ] = "markdown",
     output: Output = None,
 ) -> int:
     """Write the equivalence table for the methods section (one column per condition)."""
     from matcheck.api import check_study
-    from matcheck.report import methods_table as tables
+    from matcheck.report.methods_table import methods_table
     from matcheck.study import load_study
 
-    if format is TableFormat.docx and output is None:
-        raise UsageError("--format docx writes a Word file: give it with --output FILE.docx")
+    formatter = get(Subject.METHODS, format)
+    if formatter.binary and output is None:
+        raise UsageError(
+            f"--format {format} writes a binary file: give it with --output FILE"
+            f"{formatter.extension}"
+        )
     loaded = load_study(study)
     report = check_study(loaded)
-    built = tables.methods_table(report, coverage_threshold=loaded.coverage_threshold)
+    built = methods_table(report, coverage_threshold=loaded.coverage_threshold)
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
-    if format is TableFormat.docx:
-        assert output is not None
-        tables.write_docx(built, output, inputs=inputs)
-        return EXIT_MATCHED
-    render = {
-        TableFormat.markdown: tables.render_markdown,
-        TableFormat.csv: tables.render_csv,
-        TableFormat.latex: tables.render_latex,
-        TableFormat.text: tables.render_text,
-    }[format]
-    emit(render(built), output, inputs)
+    deliver(formatter, built, output, inputs)
     return EXIT_MATCHED
 
 
@@ -338,26 +270,47 @@ def _limits(allow_outside: bool, overrides: list[str] | None) -> ReadLimits:
     return replace(limits, allow_outside_files=True) if allow_outside else limits
 
 
-def emit(text: str, output: Path | None, inputs: Sequence[Path]) -> None:
+def _formats(subject: Subject) -> str:
+    return "Output format: " + ", ".join(names(subject)) + "."
+
+
+def deliver(
+    formatter: Formatter,
+    subject: object,
+    output: Path | None,
+    inputs: Sequence[Path],
+    options: RenderOptions | None = None,
+) -> None:
+    """Render ``subject`` and write it to stdout, or to ``output`` (never over an input)."""
+    options = options or RenderOptions()
+    if output is None and formatter.console:
+        from rich.console import Console
+
+        formatter.load()(subject, Console(), options)
+        return
+    rendered = render_text(formatter, subject, options)
     if output is None:
-        sys.stdout.write(text)
+        if isinstance(rendered, bytes):
+            sys.stdout.buffer.write(rendered)
+        else:
+            sys.stdout.write(rendered)
         return
     from matcheck.output import write_output
 
-    write_output(output, text, inputs)
+    write_output(output, rendered, inputs)
 
 
-def emit_rich(
-    render: Callable[[Console], None], output: Path | None, inputs: Sequence[Path]
-) -> None:
-    from rich.console import Console
+def _step_summary(formatter: Formatter, reports: Sequence[Report], inputs: Sequence[Path]) -> None:
+    """On GitHub Actions, the annotations go with a Markdown summary of each report."""
+    import os
 
-    if output is None:
-        render(Console())
+    summary = os.environ.get("GITHUB_STEP_SUMMARY")
+    if formatter.name != "github" or not summary or not reports:
         return
-    console = Console(record=True, width=140, file=io.StringIO(), color_system=None)
-    render(console)
-    emit(console.export_text(), output, inputs)
+    from matcheck.output import append_output
+    from matcheck.report.markdown import render_markdown
+
+    append_output(Path(summary), "".join(render_markdown(r) + "\n" for r in reports), inputs)
 
 
 def main(argv: Sequence[str] | None = None) -> int:

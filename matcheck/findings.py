@@ -8,10 +8,13 @@ can show one confound once.
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 from enum import StrEnum
 
+from matcheck.errors import EXIT_DIFFERS, EXIT_INPUT, EXIT_MATCHED
 from matcheck.model import Location
+from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
 SCHEMA_VERSION = "2.0"
 
@@ -213,6 +216,28 @@ class Pairing:
     factor: str | None = None
 
 
+class RegressionKind(StrEnum):
+    NEW = "new"  # a condition that did not exist at the revision
+    CHANGED = "changed"  # a condition whose materials changed since the revision
+    BROKEN = "broken"  # a pair that now differs where it matched (or was intended) then
+
+
+@dataclass(frozen=True, slots=True)
+class Regression:
+    """What a pull request changed or broke, against ``revision`` (``check --against``).
+
+    ``changes`` are the findings of the condition compared with itself at the revision
+    (CHANGED); ``dimensions`` the measures of the pair that no longer hold (BROKEN).
+    """
+
+    kind: RegressionKind
+    condition: str
+    revision: str
+    reference: str = ""
+    changes: tuple[Finding, ...] = ()
+    dimensions: tuple[str, ...] = ()
+
+
 @dataclass(frozen=True, slots=True)
 class Report:
     conditions: tuple[Condition, ...]
@@ -229,7 +254,9 @@ class Report:
     # ``differs``), and the equivalences that held at REV and no longer do.
     revision: str = ""
     changes: tuple[Finding, ...] = ()
-    regressions: tuple[str, ...] = ()
+    regressions: tuple[Regression, ...] = ()
+    # The thresholds the comparison used, recorded so that the report can be reproduced.
+    settings: ComparisonSettings = DEFAULT_COMPARISON
 
     def pairs(self) -> tuple[Pairing, ...]:
         """The comparisons in order (every condition against the reference by default)."""
@@ -263,3 +290,20 @@ class Report:
             and f.condition == finding.condition
             and f.reference == finding.reference
         )
+
+
+@dataclass(frozen=True, slots=True)
+class StudyResult:
+    """One study of a folder: its report, or the one-line error that stopped it."""
+
+    path: str
+    report: Report | None
+    error: str | None
+
+
+def exit_status(reports: Iterable[Report], *, failed: int = 0) -> int:
+    """The one rule for the exit status: 1 when anything differs, else 2 when a study could
+    not be checked (``failed``), else 0."""
+    if any(report.differs for report in reports):
+        return EXIT_DIFFERS
+    return EXIT_INPUT if failed else EXIT_MATCHED

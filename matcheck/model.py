@@ -167,3 +167,14 @@ class Document:
 
     def blocks_of(self, *kinds: BlockKind) -> tuple[Block, ...]:
         return tuple(block for block in self.blocks if block.kind in kinds)
+
+
+@dataclass(frozen=True, slots=True)
+class PostTestItem:
+    """One post-test item; ``source`` is the file name, ``location`` where the question is."""
+
+    id: str
+    question: str
+    answer: str
+    source: str
+    location: Location | None

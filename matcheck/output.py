@@ -26,11 +26,7 @@ def write_output(output: Path, text: str | bytes, inputs: Sequence[Path]) -> Non
     can never replace a lesson or anything that is not a report.
     """
     target = output.resolve()
-    for path in inputs:
-        if path.exists() and (
-            path.resolve() == target or (output.exists() and output.samefile(path))
-        ):
-            raise UsageError(f"--output {output} is one of the input files; choose another path")
+    refuse_inputs(output, inputs, "--output")
     if output.is_dir():
         raise UsageError(f"--output {output} is a directory")
     if not target.parent.is_dir():
@@ -58,6 +54,29 @@ def write_output(output: Path, text: str | bytes, inputs: Sequence[Path]) -> Non
         if isinstance(error, OSError):
             raise UsageError(f"--output {output} cannot be written ({error.strerror})") from None
         raise
+
+
+def refuse_inputs(output: Path, inputs: Sequence[Path], what: str) -> None:
+    """Refuse ``output`` when it is one of ``inputs``, also through a symbolic or hard link."""
+    target = output.resolve()
+    for path in inputs:
+        if path.exists() and (
+            path.resolve() == target or (output.exists() and output.samefile(path))
+        ):
+            raise UsageError(f"{what} {output} is one of the input files; choose another path")
+
+
+def append_output(output: Path, text: str, inputs: Sequence[Path]) -> None:
+    """Append ``text`` to ``output`` (a CI step summary), never to an input or a non-file."""
+    what = "GITHUB_STEP_SUMMARY"
+    refuse_inputs(output, inputs, what)
+    if output.exists() and not output.is_file():
+        raise UsageError(f"{what} {output} is not a regular file")
+    try:
+        with output.open("a", encoding="utf-8") as stream:
+            stream.write(text)
+    except OSError as error:
+        raise UsageError(f"{what} {output} cannot be written ({error.strerror})") from None
 
 
 def _umask() -> int:

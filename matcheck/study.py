@@ -15,8 +15,9 @@ from pathlib import Path
 from typing import Any
 
 from matcheck.errors import ConfigError
+from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
-TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest"}
+TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison"}
 STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
 FACTOR_KEYS = {"levels", "manipulates", "description"}
 CONDITION_KEYS = {"name", "files", "levels", "description"}
@@ -62,6 +63,7 @@ class Study:
     reading_rate: float | None
     posttest: tuple[Path, ...]
     coverage_threshold: float | None
+    comparison: ComparisonSettings = DEFAULT_COMPARISON
 
     def condition(self, name: str) -> StudyCondition:
         return next(c for c in self.conditions if c.name == name)
@@ -230,6 +232,7 @@ def load_study(path: Path) -> Study:
     if threshold is not None and (not isinstance(threshold, int | float) or not 0 < threshold <= 1):
         raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
 
+    comparison = _comparison(path, data.get("comparison", {}), threshold)
     return Study(
         path=path,
         title=title,
@@ -240,7 +243,41 @@ def load_study(path: Path) -> Study:
         reading_rate=float(rate) if rate is not None else None,
         posttest=post_files,
         coverage_threshold=float(threshold) if threshold is not None else None,
+        comparison=comparison,
     )
+
+
+def _comparison(path: Path, table: object, coverage: float | None) -> ComparisonSettings:
+    """``[comparison]``: thresholds of the comparison (docs/study-file.md)."""
+    from dataclasses import fields
+
+    from matcheck.errors import UsageError
+
+    shown = str(path)
+    if not isinstance(table, dict):
+        raise ConfigError("[comparison] must be a table of setting = value", path=shown)
+    types = {f.name: f.type for f in fields(ComparisonSettings)}
+    _check_keys(path, table, set(types), "[comparison]")
+    values: dict[str, Any] = {}
+    for key, value in table.items():
+        whole = types[key] == "int"
+        if (
+            isinstance(value, bool)
+            or not isinstance(value, int | float)
+            or (whole and not isinstance(value, int))
+        ):
+            kind = "a whole number" if whole else "a number"
+            raise ConfigError(
+                f"comparison.{key} must be {kind}, not {type(value).__name__} {value!r}",
+                path=shown,
+            )
+        values[key] = value
+    if coverage is not None:
+        values.setdefault("coverage_threshold", float(coverage))
+    try:
+        return ComparisonSettings(**values)
+    except UsageError as problem:
+        raise ConfigError(problem.message, path=shown) from None
 
 
 def comparisons(study: Study) -> tuple[Comparison, ...]:

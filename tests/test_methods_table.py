@@ -21,16 +21,17 @@ import pytest
 from matcheck.api import Version, compare_versions
 from matcheck.errors import UsageError
 from matcheck.findings import Finding, Group, Report, Status, Tolerance
+from matcheck.output import write_output
 from matcheck.report.common import format_value
 from matcheck.report.methods_table import (
     MethodsTable,
     escape_latex,
     methods_table,
     render_csv,
+    render_docx,
     render_latex,
     render_markdown,
     render_text,
-    write_docx,
 )
 
 FIXTURES = Path(__file__).resolve().parent.parent / "fixtures" / "demo"
@@ -258,7 +259,7 @@ def test_docx_is_an_apa_table(tmp_path: Path, report: Report, table: MethodsTabl
     from docx.enum.text import WD_ALIGN_PARAGRAPH
 
     path = tmp_path / "table.docx"
-    write_docx(table, path)
+    path.write_bytes(render_docx(table))
     document = docx.Document(str(path))
     first, second = document.paragraphs[0], document.paragraphs[1]
     # APA 7 (Publication Manual §7.10): number in bold, title in italics on the next line.
@@ -295,7 +296,7 @@ def test_docx_has_horizontal_rules_only(tmp_path: Path, table: MethodsTable) -> 
     import docx
 
     path = tmp_path / "table.docx"
-    write_docx(table, path)
+    path.write_bytes(render_docx(table))
     tbl = docx.Document(str(path)).tables[0]._tbl
     borders = tbl.find(f"{W}tblPr/{W}tblBorders")
     assert borders is not None
@@ -325,13 +326,13 @@ def test_docx_refuses_an_input_and_writes_atomically(tmp_path: Path, table: Meth
     lesson = tmp_path / "lesson.docx"
     lesson.write_bytes(b"the lesson")
     with pytest.raises(UsageError, match="one of the input files"):
-        write_docx(table, lesson, inputs=[lesson])
+        write_output(lesson, render_docx(table), inputs=[lesson])
     assert lesson.read_bytes() == b"the lesson"
     with pytest.raises(UsageError, match="does not exist"):
-        write_docx(table, tmp_path / "missing" / "t.docx")
+        write_output(tmp_path / "missing" / "t.docx", render_docx(table), inputs=[])
     target = tmp_path / "out.docx"
     target.write_bytes(b"old")
-    write_docx(table, target, inputs=[lesson])
+    write_output(target, render_docx(table), inputs=[lesson])
     assert target.read_bytes()[:2] == b"PK"  # a zip package (ECMA-376 Part 2) replaced it
     assert sorted(p.name for p in tmp_path.iterdir()) == ["lesson.docx", "out.docx"]
 

@@ -19,21 +19,47 @@ import pytest
 from matcheck.compare.assessment import (
     ANSWER_FACTOR,
     DEFAULT_COVERAGE,
-    assess_posttest,
-    item_terms,
+    ItemTerms,
+    PostTest,
     smoothed_idf,
     unigrams,
+)
+from matcheck.compare.assessment import (
+    assess_posttest as _assess_posttest,
+)
+from matcheck.compare.assessment import (
+    item_terms as _item_terms,
 )
 from matcheck.errors import ConfigError, InputError
 from matcheck.findings import Finding, Status
 from matcheck.language.analysis import Analysis, analyze
 from matcheck.limits import DEFAULT_LIMITS
 from matcheck.measures.key_terms import passages
-from matcheck.model import BlockKind
+from matcheck.model import BlockKind, PostTestItem
 from matcheck.readers.builder import DocumentBuilder
-from matcheck.readers.posttest import PostTestItem, read_posttest
+from matcheck.readers.posttest import items_document, read_posttest
 
 FIXTURES = Path(__file__).resolve().parent.parent / "fixtures" / "demo"
+
+
+def assess_posttest(
+    items: Sequence[PostTestItem],
+    analyses: dict[str, Analysis],
+    pairs: Sequence[tuple[str, str]],
+    **options: float,
+) -> tuple[tuple[Finding, ...], tuple[str, ...]]:
+    """The comparison as api.check_study calls it: items read, then analysed like lessons."""
+    return _assess_posttest(_posttest(items), analyses, pairs, **options)
+
+
+def _posttest(items: Sequence[PostTestItem]) -> PostTest:
+    document, slots = items_document(items)
+    return PostTest(tuple(items), analyze(document), slots)
+
+
+def item_terms(items: Sequence[PostTestItem]) -> list[ItemTerms]:
+    posttest = _posttest(items)
+    return _item_terms(posttest.items, posttest.analysis, posttest.slots)
 
 
 def _write(tmp_path: Path, name: str, text: str, *, bom: bool = False) -> Path:

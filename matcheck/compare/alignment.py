@@ -27,6 +27,7 @@ if TYPE_CHECKING:
     import numpy as np
     from scipy.sparse import csr_matrix
 
+# Defaults of ComparisonSettings.pair_threshold and .rewritten_below (matcheck/settings.py).
 PAIR_THRESHOLD = 0.25
 STRONG = 0.7
 MERGE_PENALTY = 0.05
@@ -58,10 +59,11 @@ class Alignment:
     removed: tuple[int, ...]
     added: tuple[int, ...]
     moved: tuple[Pair, ...]
+    strong: float = STRONG
 
     @property
     def rewritten(self) -> tuple[Pair, ...]:
-        return tuple(pair for pair in self.pairs if pair.similarity < STRONG)
+        return tuple(pair for pair in self.pairs if pair.similarity < self.strong)
 
 
 class _Banded:
@@ -243,7 +245,9 @@ class _Row:
         return np.where(inside, self.score[clipped], -np.inf)
 
 
-def _programme(band: _Banded, sims: _Similarity, n: int) -> list[_Row]:
+def _programme(
+    band: _Banded, sims: _Similarity, n: int, threshold: float = PAIR_THRESHOLD
+) -> list[_Row]:
     """The banded dynamic programme, one row of cells at a time.
 
     Cell ``(i, j)`` holds the best score aligning ``a[:i]`` with ``b[:j]``. Skipping a passage
@@ -273,8 +277,8 @@ def _programme(band: _Banded, sims: _Similarity, n: int) -> list[_Row]:
                 cols = j[ok] - 1
                 sim = sims.one_one(i - 1, cols)
                 sim11[ok] = sim
-                gain = rows[i - 1].at(cols) + sim - PAIR_THRESHOLD
-                one_one[ok] = np.where(sim > PAIR_THRESHOLD, gain, neg)
+                gain = rows[i - 1].at(cols) + sim - threshold
+                one_one[ok] = np.where(sim > threshold, gain, neg)
         if i > 1:
             ok = (j > 0) & band.in_band(i - 2, j - 1) & band.in_band(i - 1, j - 1)
             if ok.any():
@@ -282,8 +286,8 @@ def _programme(band: _Banded, sims: _Similarity, n: int) -> list[_Row]:
                 sim = sims.two_one(i - 2, cols)
                 sim21[ok] = sim
                 alone = np.maximum(sims.one_one(i - 2, cols), sims.one_one(i - 1, cols))
-                gain = rows[i - 2].at(cols) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
-                allowed = (sim > PAIR_THRESHOLD) & (sim >= alone + MERGE_GAIN)
+                gain = rows[i - 2].at(cols) + 2 * (sim - threshold) - MERGE_PENALTY
+                allowed = (sim > threshold) & (sim >= alone + MERGE_GAIN)
                 two_one[ok] = np.where(allowed, gain, neg)
         if i > 0:
             ok = (j > 1) & band.in_band(i - 1, j - 2) & band.in_band(i - 1, j - 1)
@@ -292,8 +296,8 @@ def _programme(band: _Banded, sims: _Similarity, n: int) -> list[_Row]:
                 sim = sims.one_two(i - 1, cols)
                 sim12[ok] = sim
                 alone = np.maximum(sims.one_one(i - 1, cols), sims.one_one(i - 1, cols + 1))
-                gain = rows[i - 1].at(cols) + 2 * (sim - PAIR_THRESHOLD) - MERGE_PENALTY
-                allowed = (sim > PAIR_THRESHOLD) & (sim >= alone + MERGE_GAIN)
+                gain = rows[i - 1].at(cols) + 2 * (sim - threshold) - MERGE_PENALTY
+                allowed = (sim > threshold) & (sim >= alone + MERGE_GAIN)
                 one_two[ok] = np.where(allowed, gain, neg)
         best = np.maximum.accumulate(
             np.maximum(np.maximum(up, one_one), np.maximum(two_one, one_two))
@@ -318,6 +322,9 @@ def align(
     right: csr_matrix,
     left_texts: Sequence[str],
     right_texts: Sequence[str],
+    *,
+    threshold: float = PAIR_THRESHOLD,
+    strong: float = STRONG,
 ) -> Alignment:
     """Align passages of A (rows of ``left``) with passages of B (rows of ``right``).
 
@@ -328,7 +335,7 @@ def align(
     band = _Banded(left, right, _band_width(n, m))
     plain_a = [" ".join(text.lower().split()) for text in left_texts]
     plain_b = [" ".join(text.lower().split()) for text in right_texts]
-    rows = _programme(band, _Similarity(band, left, right, plain_a, plain_b), n)
+    rows = _programme(band, _Similarity(band, left, right, plain_a, plain_b), n, threshold)
     pairs: list[Pair] = []
     removed: list[int] = []
     added: list[int] = []
@@ -349,8 +356,8 @@ def align(
     removed.reverse()
     added.reverse()
     pairs = _absorb(left, right, pairs, removed, added)
-    moved, removed, added = _find_moved(left, right, removed, added, plain_a, plain_b)
-    return Alignment(tuple(pairs), tuple(removed), tuple(added), tuple(moved))
+    moved, removed, added = _find_moved(left, right, removed, added, plain_a, plain_b, strong)
+    return Alignment(tuple(pairs), tuple(removed), tuple(added), tuple(moved), strong)
 
 
 def _absorb(
@@ -421,6 +428,7 @@ def _find_moved(
     added: list[int],
     plain_a: list[str],
     plain_b: list[str],
+    strong: float = STRONG,
 ) -> tuple[list[Pair], list[int], list[int]]:
     """Pair leftovers of A and B that are strongly alike: the passage moved."""
     import numpy as np
@@ -440,7 +448,7 @@ def _find_moved(
     used_c: set[int] = set()
     order = np.dstack(np.unravel_index(np.argsort(-sims, axis=None), sims.shape))[0]
     for r, c in order:
-        if sims[r, c] < STRONG:
+        if sims[r, c] < strong:
             break
         if r in used_r or c in used_c:
             continue

@@ -42,12 +42,12 @@ from matcheck.findings import Evidence, EvidenceKind, Finding
 from matcheck.language.analysis import Analysis
 from matcheck.measures.comparisons import ITEM_COVERAGE
 from matcheck.measures.key_terms import Passage, passages
-from matcheck.model import BlockKind, Location
-from matcheck.readers.posttest import PostTestItem
+from matcheck.model import Location, PostTestItem
+from matcheck.settings import DEFAULT_COMPARISON
 
-DEFAULT_COVERAGE = 0.6
+DEFAULT_COVERAGE = DEFAULT_COMPARISON.coverage_threshold
 # Answer terms weigh this many times a question-only term (judgment call, see above).
-ANSWER_FACTOR = 2.0
+ANSWER_FACTOR = DEFAULT_COMPARISON.answer_factor
 # Words of the question shown in a warning.
 QUESTION_EXCERPT_WORDS = 12
 
@@ -78,32 +78,21 @@ def smoothed_idf(n_documents: int, document_frequency: int) -> float:
     return math.log((1 + n_documents) / (1 + document_frequency)) + 1.0
 
 
-def item_terms(items: Sequence[PostTestItem]) -> list[ItemTerms]:
-    """Each item's content lemmas, from the same pipeline as the lessons' text."""
-    from matcheck.language.analysis import analyze
-    from matcheck.readers.builder import DocumentBuilder
-
-    # One throwaway document, two blocks per item, so the text is normalised and tokenised
-    # exactly as lesson text is.
-    builder = DocumentBuilder("post-test", "text")
-    slots: list[tuple[int | None, int | None]] = []
-    for item in items:
-        question = builder.add_block(BlockKind.PARAGRAPH, item.question)
-        answer = builder.add_block(BlockKind.PARAGRAPH, item.answer)
-        slots.append(
-            (
-                None if question is None else question.location.block,
-                None if answer is None else answer.location.block,
-            )
-        )
-    analysis = analyze(builder.build())
+def item_terms(
+    items: Sequence[PostTestItem],
+    analysis: Analysis,
+    slots: Sequence[tuple[int | None, int | None]],
+    answer_factor: float = ANSWER_FACTOR,
+) -> list[ItemTerms]:
+    """Each item's content lemmas, from the analysis of the items' own document (its
+    question and answer blocks at ``slots``), made by the same pipeline as the lessons'."""
     result = []
     for item, (question_at, answer_at) in zip(items, slots, strict=True):
         factors: dict[str, float] = {}
         if question_at is not None:
             factors.update(dict.fromkeys(analysis.blocks[question_at].terms, 1.0))
         if answer_at is not None:
-            factors.update(dict.fromkeys(analysis.blocks[answer_at].terms, ANSWER_FACTOR))
+            factors.update(dict.fromkeys(analysis.blocks[answer_at].terms, answer_factor))
         result.append(ItemTerms(item, factors))
     return result
 
@@ -133,12 +122,24 @@ def coverage(terms: ItemTerms, units: Sequence[Passage], weights: Mapping[str, f
     return best
 
 
+@dataclass(frozen=True, slots=True)
+class PostTest:
+    """The study's post-test items, with the analysis of their text (made by the caller with
+    :func:`matcheck.readers.posttest.items_document` and the language pass) and where each
+    item's question and answer are in it."""
+
+    items: tuple[PostTestItem, ...]
+    analysis: Analysis
+    slots: tuple[tuple[int | None, int | None], ...]
+
+
 def assess_posttest(
-    items: Sequence[PostTestItem],
+    posttest: PostTest,
     analyses: Mapping[str, Analysis],
     pairs: Sequence[tuple[str, str]],
     *,
     threshold: float | None = None,
+    answer_factor: float = ANSWER_FACTOR,
 ) -> tuple[tuple[Finding, ...], tuple[str, ...]]:
     """Findings (group ``assessment``) for every item and pair, and the study's warnings."""
     limit = DEFAULT_COVERAGE if threshold is None else threshold
@@ -147,7 +148,8 @@ def assess_posttest(
     units = {name: passages(analysis) for name, analysis in analyses.items()}
     every = [unigrams(unit) for name in units for unit in units[name]]
     frequency = Counter(term for terms in every for term in terms)
-    needed = item_terms(items)
+    items = posttest.items
+    needed = item_terms(items, posttest.analysis, posttest.slots, answer_factor)
     warnings: list[str] = []
     covered: dict[tuple[str, str], Coverage] = {}
     assessed: list[ItemTerms] = []

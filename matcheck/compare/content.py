@@ -22,22 +22,23 @@ from matcheck.compare.alignment import Alignment, align
 from matcheck.findings import Evidence, EvidenceKind
 from matcheck.language.analysis import Analysis
 from matcheck.measures.key_terms import Passage, fit_tfidf, passages, term_weights
+from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
 if TYPE_CHECKING:
     from scipy.sparse import csr_matrix
 
-KEY_TERMS = 30
+KEY_TERMS = DEFAULT_COMPARISON.key_terms
 MISSING_SHOWN = 10
 EXCERPT_WORDS = 25
 # A run dropped or added inside paired passages is content when at least this share of its
 # distinct content terms appears nowhere in the other version (judgment call): a sentence cut
 # with what it taught, not a restatement or a reworded phrase.
-NOVEL_SHARE = 0.5
+NOVEL_SHARE = DEFAULT_COMPARISON.novel_share
 # ... and when at least this many of its content terms are new (judgment call): a sentence
 # that teaches something names several things; a reworded phrase changes one or two words.
-MIN_NOVEL_TERMS = 3
+MIN_NOVEL_TERMS = DEFAULT_COMPARISON.min_novel_terms
 # Word runs shorter than this inside paired passages are edits, not content (judgment call).
-MIN_RUN_WORDS = 6
+MIN_RUN_WORDS = DEFAULT_COMPARISON.min_run_words
 # difflib's matcher is quadratic in the words of a pair; longer pairs (a lesson read as one
 # huge block) are first cut at runs of words found once in each (see word_opcodes). Judgment
 # call, as is ANCHOR_WORDS.
@@ -84,6 +85,7 @@ class PairContent:
     rewritten: tuple[Evidence, ...]
     moved: tuple[Evidence, ...]
     edits: tuple[Evidence, ...]
+    novel_share: float = NOVEL_SHARE
 
     @property
     def text_lost(self) -> tuple[Evidence, ...]:
@@ -91,7 +93,7 @@ class PairContent:
         return tuple(
             e
             for e in self.edits
-            if e.kind is EvidenceKind.TEXT_REMOVED and (e.weight or 0) >= NOVEL_SHARE
+            if e.kind is EvidenceKind.TEXT_REMOVED and (e.weight or 0) >= self.novel_share
         )
 
     @property
@@ -100,7 +102,7 @@ class PairContent:
         return tuple(
             e
             for e in self.edits
-            if e.kind is EvidenceKind.TEXT_ADDED and (e.weight or 0) >= NOVEL_SHARE
+            if e.kind is EvidenceKind.TEXT_ADDED and (e.weight or 0) >= self.novel_share
         )
 
 
@@ -125,7 +127,7 @@ def excerpt(text: str, words: int = EXCERPT_WORDS) -> str:
     return " ".join(parts[:words]) + (" …" if len(parts) > words else "")
 
 
-def _coverage(model: ContentModel, source: str, target: str) -> Coverage:
+def _coverage(model: ContentModel, source: str, target: str, key_terms: int) -> Coverage:
     import numpy as np
 
     src = model.versions[source]
@@ -135,7 +137,7 @@ def _coverage(model: ContentModel, source: str, target: str) -> Coverage:
     # content; the bigrams still weigh in the TF-IDF model and the passage alignment.
     unigrams = ((term, weight) for term, weight in weights.items() if " " not in term)
     # The same as sorted(...)[:KEY_TERMS] (heapq documents it), without sorting every term.
-    key = heapq.nsmallest(KEY_TERMS, unigrams, key=lambda item: (-item[1], item[0]))
+    key = heapq.nsmallest(key_terms, unigrams, key=lambda item: (-item[1], item[0]))
     total = sum(weight for _, weight in key)
     if not total:
         return Coverage(1.0, ())
@@ -166,13 +168,20 @@ def _coverage(model: ContentModel, source: str, target: str) -> Coverage:
     return Coverage(share, tuple(evidence))
 
 
-def compare_content(model: ContentModel, reference: str, version: str) -> PairContent:
+def compare_content(
+    model: ContentModel,
+    reference: str,
+    version: str,
+    settings: ComparisonSettings = DEFAULT_COMPARISON,
+) -> PairContent:
     ref, other = model.versions[reference], model.versions[version]
     alignment = align(
         model.rows(reference),
         model.rows(version),
         [item.text for item in ref.passages],
         [item.text for item in other.passages],
+        threshold=settings.pair_threshold,
+        strong=settings.rewritten_below,
     )
 
     def passage_evidence(kind: EvidenceKind, name: str, item: Passage, **extra: object) -> Evidence:
@@ -214,16 +223,17 @@ def compare_content(model: ContentModel, reference: str, version: str) -> PairCo
         )
         for pair in alignment.moved
     )
-    edits = tuple(_edits(alignment, ref, other))
+    edits = tuple(_edits(alignment, ref, other, settings))
     return PairContent(
-        coverage_of_reference=_coverage(model, reference, version),
-        coverage_of_version=_coverage(model, version, reference),
+        coverage_of_reference=_coverage(model, reference, version, settings.key_terms),
+        coverage_of_version=_coverage(model, version, reference, settings.key_terms),
         alignment=alignment,
         removed=removed,
         added=added,
         rewritten=rewritten,
         moved=moved,
         edits=edits,
+        novel_share=settings.novel_share,
     )
 
 
@@ -244,19 +254,23 @@ def _vocabulary(version: VersionText) -> set[str]:
     return {term for passage in version.passages for term in passage.terms if " " not in term}
 
 
-def novelty(run: Sequence[str], other_vocabulary: set[str]) -> float:
+def novelty(
+    run: Sequence[str], other_vocabulary: set[str], min_novel_terms: int = MIN_NOVEL_TERMS
+) -> float:
     """Share of a run's distinct content terms that the other version never uses: how much of
     what the run says is lost, or new. 0 when fewer than :data:`MIN_NOVEL_TERMS` terms are new
     (a reworded phrase, "about twenty minutes" -> "roughly a third of an hour", is not content).
     """
     terms = _content_terms(run)
     novel = terms - other_vocabulary
-    if len(novel) < MIN_NOVEL_TERMS:
+    if len(novel) < min_novel_terms:
         return 0.0
     return len(novel) / len(terms)
 
 
-def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[Evidence]:
+def _edits(
+    alignment: Alignment, ref: VersionText, other: VersionText, settings: ComparisonSettings
+) -> list[Evidence]:
     """Runs of words added or dropped inside passages that otherwise correspond.
 
     ``weight`` is the run's :func:`novelty` against the other version: a restated sentence
@@ -272,25 +286,25 @@ def _edits(alignment: Alignment, ref: VersionText, other: VersionText) -> list[E
         if a == b:
             continue
         for tag, i1, i2, j1, j2 in word_opcodes(a, b):
-            if tag in ("delete", "replace") and i2 - i1 >= MIN_RUN_WORDS:
+            if tag in ("delete", "replace") and i2 - i1 >= settings.min_run_words:
                 evidence.append(
                     Evidence(
                         kind=EvidenceKind.TEXT_REMOVED,
                         condition=ref.name,
                         text=excerpt(" ".join(w.text for w in left[i1:i2])),
                         location=ref.passages[pair.left[0]].location,
-                        weight=novelty(a[i1:i2], other_vocabulary),
+                        weight=novelty(a[i1:i2], other_vocabulary, settings.min_novel_terms),
                         counterpart=other.passages[pair.right[0]].location,
                     )
                 )
-            if tag in ("insert", "replace") and j2 - j1 >= MIN_RUN_WORDS:
+            if tag in ("insert", "replace") and j2 - j1 >= settings.min_run_words:
                 evidence.append(
                     Evidence(
                         kind=EvidenceKind.TEXT_ADDED,
                         condition=other.name,
                         text=excerpt(" ".join(w.text for w in right[j1:j2])),
                         location=other.passages[pair.right[0]].location,
-                        weight=novelty(b[j1:j2], ref_vocabulary),
+                        weight=novelty(b[j1:j2], ref_vocabulary, settings.min_novel_terms),
                         counterpart=ref.passages[pair.left[0]].location,
                     )
                 )

@@ -31,8 +31,9 @@ from dataclasses import dataclass, replace
 
 from matcheck.findings import Basis, Evidence, Finding, StatTest, Status, Tolerance
 from matcheck.measures.base import Measurement, MeasureSpec
+from matcheck.settings import DEFAULT_COMPARISON
 
-ALPHA = 0.05
+ALPHA = DEFAULT_COMPARISON.alpha
 
 STATUS_OF = {
     Basis.DECLARED: Status.INTENDED,
@@ -163,6 +164,7 @@ def decide_mean(
     reference_sample: Sequence[float],
     sample: Sequence[float],
     tolerance: Tolerance,
+    alpha: float = ALPHA,
 ) -> Judgement:
     """Verdict on a difference of means (the sentences of each version are its sample)."""
     import numpy as np
@@ -183,11 +185,11 @@ def decide_mean(
     if abs(difference) <= bound:
         p_tost = tost_welch_p(a.tolist(), b.tolist(), -bound, bound)
         test = StatTest("TOST (Welch)", p_tost, f"equivalence bounds ±{bound:.2f} words")
-        reason = "within tolerance" + (" (equivalent by TOST)" if p_tost < ALPHA else "")
+        reason = "within tolerance" + (" (equivalent by TOST)" if p_tost < alpha else "")
         return Basis.WITHIN_TOLERANCE, reason, test
     p_diff = welch_p(a.tolist(), b.tolist())
     test = StatTest("Welch t-test", p_diff, f"difference {difference:+.2f} words")
-    if p_diff < ALPHA:
+    if p_diff < alpha:
         return Basis.BEYOND_TOLERANCE, "beyond tolerance: a possible confound", test
     return (
         Basis.TEST_INCONCLUSIVE,
@@ -197,11 +199,15 @@ def decide_mean(
     )
 
 
-MIN_SECTION_SENTENCES = 3
+MIN_SECTION_SENTENCES = DEFAULT_COMPARISON.min_section_sentences
 
 
 def decide_sections(
-    reference: Measurement, other: Measurement, tolerance: Tolerance
+    reference: Measurement,
+    other: Measurement,
+    tolerance: Tolerance,
+    alpha: float = ALPHA,
+    min_sentences: int = MIN_SECTION_SENTENCES,
 ) -> Judgement | None:
     """A mean that matches over the whole lesson can hide one section rewritten: check each
     section that both versions have (same heading) and at least three sentences in each.
@@ -219,14 +225,10 @@ def decide_sections(
         return groups
 
     a, b = by_section(reference), by_section(other)
-    shared = [
-        s
-        for s in a
-        if s in b and len(a[s]) >= MIN_SECTION_SENTENCES and len(b[s]) >= MIN_SECTION_SENTENCES
-    ]
+    shared = [s for s in a if s in b and len(a[s]) >= min_sentences and len(b[s]) >= min_sentences]
     if not shared:
         return None
-    alpha = ALPHA / len(shared)
+    alpha = alpha / len(shared)
     worst: tuple[float, str, float, float, float] | None = None
     for section in shared:
         mean_a = sum(a[section]) / len(a[section])

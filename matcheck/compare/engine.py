@@ -16,6 +16,7 @@ from matcheck.findings import Basis, Finding, Group, Spread, Status, Tolerance
 from matcheck.intent import expand_manipulated
 from matcheck.measures import comparisons, registry
 from matcheck.measures.base import MeasureSpec, Profile, Role
+from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
 
 def compare_profiles(
@@ -23,16 +24,18 @@ def compare_profiles(
     reference: str,
     manipulated: Sequence[str],
     tolerances: Mapping[str, Tolerance],
+    settings: ComparisonSettings = DEFAULT_COMPARISON,
 ) -> tuple[tuple[Finding, ...], tuple[Spread, ...]]:
     """All findings of every version against ``reference``, and the spread over all."""
     pairs = [(reference, name, tuple(manipulated)) for name in profiles if name != reference]
-    return compare_pairs(profiles, pairs, tolerances)
+    return compare_pairs(profiles, pairs, tolerances, settings)
 
 
 def compare_pairs(
     profiles: Mapping[str, Profile],
     pairs: Sequence[tuple[str, str, tuple[str, ...]]],
     tolerances: Mapping[str, Tolerance],
+    settings: ComparisonSettings = DEFAULT_COMPARISON,
 ) -> tuple[tuple[Finding, ...], tuple[Spread, ...]]:
     """Findings for each ``(reference, condition, manipulated)`` pair, and the spread.
 
@@ -43,8 +46,8 @@ def compare_pairs(
     for reference, name, manipulated in pairs:
         intended = expand_manipulated(manipulated)
         ref, profile = profiles[reference], profiles[name]
-        content = compare_content(model, reference, name)
-        observed = list(_measured(ref, profile, reference, name, tolerances))
+        content = compare_content(model, reference, name, settings)
+        observed = list(_measured(ref, profile, reference, name, tolerances, settings))
         observed.extend(_content(content, reference, name, tolerances))
         findings.extend(locate(decide(observed, intended), ref, profile, content))
     spreads = _spreads(profiles, findings) if len(profiles) > 2 else ()
@@ -67,6 +70,7 @@ def _measured(
     ref_name: str,
     name: str,
     tolerances: Mapping[str, Tolerance],
+    settings: ComparisonSettings,
 ) -> Iterable[Observation]:
     for spec in _specs(ref, other):
         ref_m, other_m = ref.get(spec.id), other.get(spec.id)
@@ -79,9 +83,12 @@ def _measured(
         difference = None if a is None or b is None else b - a
         judged = None
         if ref_m and other_m and ref_m.sample and other_m.sample:
-            judged = decide_mean(ref_m.sample, other_m.sample, tolerance)
+            judged = decide_mean(ref_m.sample, other_m.sample, tolerance, settings.alpha)
             if judged[0] is not Basis.BEYOND_TOLERANCE:
-                judged = decide_sections(ref_m, other_m, tolerance) or judged
+                local = decide_sections(
+                    ref_m, other_m, tolerance, settings.alpha, settings.min_section_sentences
+                )
+                judged = local or judged
         yield Observation(
             spec=spec,
             reference=ref_name,

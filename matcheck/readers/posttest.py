@@ -20,14 +20,13 @@ from __future__ import annotations
 import csv
 import io
 import re
-from collections.abc import Iterable
-from dataclasses import dataclass
+from collections.abc import Iterable, Sequence
 from pathlib import Path
 
 from matcheck.errors import ConfigError, CorruptFile, InputError, LimitExceeded
 from matcheck.limits import ReadLimits
-from matcheck.model import BlockKind, Location
-from matcheck.readers.builder import normalize_text
+from matcheck.model import BlockKind, Document, Location, PostTestItem
+from matcheck.readers.builder import DocumentBuilder, normalize_text
 
 LAYOUT_HINT = (
     "write each question as a numbered list item, or as a paragraph starting 'Q1.', followed "
@@ -40,17 +39,6 @@ _NUMBERED = re.compile(
 _ANSWER = re.compile(r"^(?:answer|key)\s*:\s*", re.IGNORECASE)
 # Plain text joins a paragraph's lines, so "1. Question?\nAnswer: ..." is one block.
 _INLINE_ANSWER = re.compile(r"\s(?:Answer|ANSWER|Key|KEY)\s*:\s+")
-
-
-@dataclass(frozen=True, slots=True)
-class PostTestItem:
-    """One post-test item; ``source`` is the file name, ``location`` where the question is."""
-
-    id: str
-    question: str
-    answer: str
-    source: str
-    location: Location | None
 
 
 def read_posttest(path: Path, limits: ReadLimits) -> list[PostTestItem]:
@@ -194,3 +182,24 @@ def _unique(found: Iterable[tuple[PostTestItem, str]], shown: str) -> list[PostT
         seen[item.id] = where
         items.append(item)
     return items
+
+
+# Block numbers of an item's question and answer in :func:`items_document` (None: empty).
+Slots = tuple[tuple[int | None, int | None], ...]
+
+
+def items_document(items: Sequence[PostTestItem]) -> tuple[Document, Slots]:
+    """One throwaway document, two blocks per item, so that the items' text is normalised and
+    tokenised exactly as lesson text is; with where each item's question and answer are."""
+    builder = DocumentBuilder("post-test", "text")
+    slots = []
+    for item in items:
+        question = builder.add_block(BlockKind.PARAGRAPH, item.question)
+        answer = builder.add_block(BlockKind.PARAGRAPH, item.answer)
+        slots.append(
+            (
+                None if question is None else question.location.block,
+                None if answer is None else answer.location.block,
+            )
+        )
+    return builder.build(), tuple(slots)

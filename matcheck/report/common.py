@@ -2,7 +2,16 @@
 
 from __future__ import annotations
 
-from matcheck.findings import Evidence, EvidenceKind, Finding, Group, Report, Status
+from matcheck.findings import (
+    Evidence,
+    EvidenceKind,
+    Finding,
+    Group,
+    Regression,
+    RegressionKind,
+    Report,
+    Status,
+)
 from matcheck.measures import registry
 from matcheck.measures.base import UNIT_DECIMALS, Role
 
@@ -96,3 +105,33 @@ def describe_evidence(item: Evidence, pair: tuple[str, str]) -> str:
 
 def summary_counts(report: Report) -> dict[str, int]:
     return {status.value: len(report.root_findings(status)) for status in STATUS_ORDER}
+
+
+def describe_regression(regression: Regression) -> str:
+    """One sentence for what a pull request changed or broke since its base revision."""
+    name, revision = regression.condition, regression.revision
+    if regression.kind is RegressionKind.NEW:
+        return f"{name} is new since {revision}"
+    if regression.kind is RegressionKind.CHANGED:
+        changes = ", ".join(_change_phrase(f) for f in regression.changes)
+        return f"{name} changed since {revision}: {changes}"
+    shown = []
+    for key in regression.dimensions:
+        spec = registry.spec(key.partition(":")[0])
+        shown.append(f"{spec.group.value} ({key})" if spec else key)
+    return (
+        f"{name} now differs from {regression.reference} in {', '.join(shown)}, "
+        f"which matched at {revision}"
+    )
+
+
+def _change_phrase(finding: Finding) -> str:
+    if finding.dimension.startswith("passages_") and finding.difference:
+        what = finding.dimension.removeprefix("passages_")
+        count = int(finding.difference)
+        return f"{count} passage{'s' if count != 1 else ''} {what}"
+    if finding.difference is not None:
+        relative = finding.relative_difference
+        change = f"{finding.dimension} {finding.difference:+.4g}"
+        return f"{change} ({relative * 100:+.1f}%)" if relative is not None else change
+    return finding.dimension

@@ -9,11 +9,16 @@ GitHub's documentation of workflow commands.
 
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 from matcheck.findings import Evidence, Finding, Report, Status
-from matcheck.report.common import describe_evidence, format_difference, format_tolerance
+from matcheck.report.common import (
+    describe_evidence,
+    describe_regression,
+    format_difference,
+    format_tolerance,
+)
+from matcheck.report.formatter import RenderOptions
 
 
 def _data(text: str) -> str:
@@ -59,7 +64,7 @@ def _command(kind: str, message: str, path: str | None, line: int | None, title:
     return f"::{kind} {','.join(props)}::{_data(message)}"
 
 
-def render_github(report: Report) -> str:
+def render_github(report: Report, options: RenderOptions | None = None) -> str:
     files = _files(report)
     lines = []
     for finding in report.findings:
@@ -79,12 +84,11 @@ def render_github(report: Report) -> str:
             message += f"\n{describe_evidence(evidence, pair)}"
         kind = "error" if finding.status is Status.DIFFERS else "warning"
         lines.append(_command(kind, message, path, line, f"matcheck: {finding.group}"))
-    for text in (*report.warnings, *report.regressions):
+    for text in (*report.warnings, *map(describe_regression, report.regressions)):
         lines.append(_command("warning", text, None, None, "matcheck"))
-    summary = os.environ.get("GITHUB_STEP_SUMMARY")
-    if summary:
-        from matcheck.report.markdown import render_markdown
-
-        with open(summary, "a", encoding="utf-8") as stream:
-            stream.write(render_markdown(report) + "\n")
     return "\n".join(lines) + ("\n" if lines else "")
+
+
+def error_command(path: str, message: str) -> str:
+    """An ``::error`` annotation on a file that could not be checked."""
+    return _command("error", message, path, None, "matcheck") + "\n"

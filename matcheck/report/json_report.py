@@ -8,7 +8,8 @@ from typing import Any
 from matcheck import __version__
 from matcheck.findings import SCHEMA_VERSION, Evidence, Finding, Report
 from matcheck.model import Location
-from matcheck.report.common import sorted_findings, summary_counts
+from matcheck.report.common import describe_regression, sorted_findings, summary_counts
+from matcheck.report.formatter import RenderOptions
 
 
 def location_dict(location: Location | None) -> dict[str, Any] | None:
@@ -91,6 +92,7 @@ def report_dict(report: Report) -> dict[str, Any]:
             for p in report.pairs()
         ],
         "words_per_minute": report.words_per_minute,
+        "settings": report.settings.as_dict(),
         "conditions": [
             {
                 "name": c.name,
@@ -122,10 +124,10 @@ def report_dict(report: Report) -> dict[str, Any]:
         "warnings": list(report.warnings),
         "revision": report.revision or None,
         "changes": [finding_dict(f) for f in sorted_findings(report.changes)],
-        "regressions": list(report.regressions),
+        "regressions": [describe_regression(r) for r in report.regressions],
         "notes": list(report.notes),
     }
 
 
-def render_json(report: Report) -> str:
+def render_json(report: Report, options: RenderOptions | None = None) -> str:
     return json.dumps(report_dict(report), indent=2, ensure_ascii=False) + "\n"

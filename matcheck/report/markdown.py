@@ -5,11 +5,13 @@ from __future__ import annotations
 from matcheck.findings import Report, Status
 from matcheck.report.common import (
     describe_evidence,
+    describe_regression,
     format_difference,
     format_tolerance,
     format_value,
     summary_counts,
 )
+from matcheck.report.formatter import RenderOptions
 from matcheck.report.table import ordered_with_echoes
 
 ICONS = {
@@ -24,7 +26,7 @@ def _cell(text: str) -> str:
     return text.replace("|", "\\|").replace("\n", " ")
 
 
-def render_markdown(report: Report) -> str:
+def render_markdown(report: Report, options: RenderOptions | None = None) -> str:
     counts = summary_counts(report)
     lines = ["## matcheck report", ""]
     verdict = (
@@ -91,7 +93,7 @@ def render_markdown(report: Report) -> str:
             lines += ["", "</details>", ""]
     if report.revision:
         lines += [f"### Since `{report.revision}`", ""]
-        lines += [f"- {_cell(line)}" for line in report.regressions] or [
+        lines += [f"- {_cell(describe_regression(r))}" for r in report.regressions] or [
             f"Nothing changed beyond tolerance since `{report.revision}`."
         ]
         lines.append("")

@@ -14,12 +14,11 @@ import csv
 import io
 from collections.abc import Sequence
 from dataclasses import dataclass
-from pathlib import Path
 from typing import TYPE_CHECKING
 
 from matcheck.findings import Finding, Report, Status
-from matcheck.output import write_output
 from matcheck.report.common import GROUP_ORDER, format_difference, format_tolerance, format_value
+from matcheck.report.formatter import RenderOptions
 from matcheck.settings import DEFAULT_WPM
 
 if TYPE_CHECKING:
@@ -151,10 +150,7 @@ def methods_table(
     items = [f for f in report.findings if f.item is not None]
     threshold = coverage_threshold
     if threshold is None and items:
-        # Imported only here: the module pulls in the language pipeline.
-        from matcheck.compare.assessment import DEFAULT_COVERAGE
-
-        threshold = DEFAULT_COVERAGE
+        threshold = report.settings.coverage_threshold
     rows: list[MethodsRow] = []
     for measure in MEASURES:
         row: MethodsRow | None
@@ -394,7 +390,7 @@ def _md(text: str) -> str:
     return text.replace("|", "\\|").replace("\n", " ")
 
 
-def render_markdown(table: MethodsTable) -> str:
+def render_markdown(table: MethodsTable, options: RenderOptions | None = None) -> str:
     """A pipe table (one line per row, the group in its own column), number, title and note."""
     header = ("Group", *table.header)
     lines = [
@@ -412,7 +408,7 @@ def render_markdown(table: MethodsTable) -> str:
     return "\n".join(lines) + "\n"
 
 
-def render_csv(table: MethodsTable) -> str:
+def render_csv(table: MethodsTable, options: RenderOptions | None = None) -> str:
     """RFC 4180 CSV; the note is the last row, ``Note.`` in the Group column, padded to width.
 
     Every row has the same number of fields, so spreadsheets and ``csv.reader`` read it as is;
@@ -455,7 +451,7 @@ def escape_latex(text: str) -> str:
     return text.translate(_LATEX)
 
 
-def render_latex(table: MethodsTable) -> str:
+def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> str:
     """A complete ``table`` float with booktabs rules; LaTeX numbers it (Table 1 here).
 
     Needs ``\\usepackage{booktabs}`` in the preamble.
@@ -522,13 +518,8 @@ _AFTER_TC_BORDERS = (
 )
 
 
-def write_docx(table: MethodsTable, path: Path, inputs: Sequence[Path] = ()) -> None:
-    """Write the table as a Word document in APA 7 table style, atomically.
-
-    Refuses (UsageError) to write over one of ``inputs`` or into a missing folder; the file is
-    written next to ``path`` under a temporary name and renamed, so a failure leaves no
-    half-written document.
-    """
+def render_docx(table: MethodsTable, options: RenderOptions | None = None) -> bytes:
+    """The table as a Word document (its bytes) in APA 7 table style."""
     from docx import Document
     from docx.enum.text import WD_ALIGN_PARAGRAPH
 
@@ -558,7 +549,7 @@ def write_docx(table: MethodsTable, path: Path, inputs: Sequence[Path] = ()) -> 
     note.alignment = WD_ALIGN_PARAGRAPH.LEFT
     buffer = io.BytesIO()
     document.save(buffer)
-    write_output(path, buffer.getvalue(), inputs)
+    return buffer.getvalue()
 
 
 def _fill(cell: _Cell, text: str, *, right: bool) -> None:
@@ -640,7 +631,7 @@ def _phrase(row: MethodsRow, columns: Sequence[str]) -> str:
     return f"{measure.phrase} ({join_list(row.values)}{measure.suffix})"
 
 
-def render_text(table: MethodsTable) -> str:
+def render_text(table: MethodsTable, options: RenderOptions | None = None) -> str:
     """A paragraph for the methods section, to adapt: what matched, what differed and how."""
     count = len(table.columns)
     versions = f"The {_NUMBERS.get(count, str(count))} versions ({join_list(table.columns)})"

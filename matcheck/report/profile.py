@@ -10,6 +10,7 @@ from matcheck import __version__
 from matcheck.findings import SCHEMA_VERSION
 from matcheck.measures.base import Measurement, Profile
 from matcheck.report.common import format_value
+from matcheck.report.formatter import RenderOptions
 
 if TYPE_CHECKING:
     from rich.console import Console
@@ -58,11 +59,13 @@ def profiles_dict(profiles: Sequence[Profile]) -> dict[str, Any]:
     }
 
 
-def render_profiles_json(profiles: Sequence[Profile]) -> str:
+def render_profiles_json(profiles: Sequence[Profile], options: RenderOptions | None = None) -> str:
     return json.dumps(profiles_dict(profiles), indent=2, ensure_ascii=False) + "\n"
 
 
-def render_profiles_table(profiles: Sequence[Profile], console: Console) -> None:
+def render_profiles_table(
+    profiles: Sequence[Profile], console: Console, options: RenderOptions | None = None
+) -> None:
     from rich.table import Table
 
     table = Table(header_style="bold")

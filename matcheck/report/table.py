@@ -7,12 +7,14 @@ from typing import TYPE_CHECKING
 from matcheck.findings import Finding, Pairing, Report, Status
 from matcheck.report.common import (
     describe_evidence,
+    describe_regression,
     format_difference,
     format_tolerance,
     format_value,
     sorted_findings,
     summary_counts,
 )
+from matcheck.report.formatter import RenderOptions
 
 if TYPE_CHECKING:
     from rich.console import Console
@@ -55,7 +57,8 @@ def _short(name: str, width: int = 10) -> str:
     return name if len(name) <= width else name[: width - 1] + "…"
 
 
-def render_table(report: Report, console: Console, *, show_matched: bool = True) -> None:
+def render_table(report: Report, console: Console, options: RenderOptions | None = None) -> None:
+    show_matched = options is None or options.show_matched
     from rich import box
     from rich.table import Table
 
@@ -174,7 +177,8 @@ def _render_changes(report: Report, console: Console) -> None:
     console.print(f"[bold]Since {report.revision}[/bold]")
     if not report.regressions:
         console.print(f"  nothing changed beyond tolerance since {report.revision}")
-    for line in report.regressions:
+    for regression in report.regressions:
+        line = describe_regression(regression)
         console.print(f"  • {line}", highlight=False, markup=False)
     changed = [f for f in report.changes if f.status is not Status.MATCHED and f.caused_by is None]
     if not changed:

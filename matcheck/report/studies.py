@@ -1,0 +1,82 @@
+"""Reports for ``check DIR``: every study below a folder, each with its report or its error."""
+
+from __future__ import annotations
+
+import json
+from collections.abc import Sequence
+from typing import TYPE_CHECKING
+
+from matcheck.findings import SCHEMA_VERSION, Status, StudyResult
+from matcheck.report.formatter import RenderOptions
+
+if TYPE_CHECKING:
+    from rich.console import Console
+
+
+def render_json(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
+    from matcheck.report.json_report import report_dict
+
+    data = {
+        "schema_version": SCHEMA_VERSION,
+        "studies": [
+            {
+                "path": result.path,
+                "error": result.error,
+                "report": report_dict(result.report) if result.report else None,
+            }
+            for result in results
+        ],
+    }
+    return json.dumps(data, indent=2, ensure_ascii=False) + "\n"
+
+
+def render_markdown(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
+    from matcheck.report.markdown import render_markdown as one
+
+    return "\n".join(
+        one(r.report) if r.report is not None else f"## {r.path}\n\n❗ {r.error}\n" for r in results
+    )
+
+
+def render_github(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
+    from matcheck.report.github import error_command
+    from matcheck.report.github import render_github as one
+
+    return "\n".join(
+        one(r.report) if r.report is not None else error_command(r.path, r.error or "")
+        for r in results
+    )
+
+
+def render_summary(
+    results: Sequence[StudyResult], console: Console, options: RenderOptions | None = None
+) -> None:
+    from rich.markup import escape
+    from rich.table import Table
+
+    table = Table(title="Studies", title_justify="left", header_style="bold")
+    for column in ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Problem"):
+        table.add_column(column)
+    for result in results:
+        if result.report is None:
+            table.add_row(
+                escape(result.path), "—", "error", "—", "—", escape(result.error or ""), style="red"
+            )
+            continue
+        report = result.report
+        table.add_row(
+            escape(result.path),
+            str(len(report.conditions)),
+            "differs" if report.differs else "matched",
+            str(len(report.root_findings(Status.DIFFERS))),
+            str(len(report.root_findings(Status.INCONCLUSIVE))),
+            "",
+            style="bold red" if report.differs else None,
+        )
+    console.print(table)
+    failing = sum(1 for r in results if r.report is not None and r.report.differs)
+    errors = sum(1 for r in results if r.error)
+    console.print(
+        f"{len(results)} studies: {failing} with possible confounds, {errors} unreadable. "
+        "Run `matcheck check STUDY.toml` on one for its located findings."
+    )
