@@ -283,7 +283,7 @@ def table(
 ) -> int:
     """Write the equivalence table for the methods section (one column per condition)."""
     from matcheck.api import check_study
-    from matcheck.report import methods_table as tables
+    from matcheck.report import methods as tables
     from matcheck.study import load_study
 
     if format is TableFormat.docx and output is None:

@@ -22,7 +22,7 @@ from matcheck.api import Version, compare_versions
 from matcheck.errors import UsageError
 from matcheck.findings import Finding, Group, Report, Status, Tolerance
 from matcheck.report.common import format_value
-from matcheck.report.methods_table import (
+from matcheck.report.methods import (
     MethodsTable,
     escape_latex,
     methods_table,
