@@ -331,7 +331,7 @@ def test_markdown_outside_image_is_never_opened(
     lesson.mkdir()
     _png(tmp_path / "secret.png", 3, 3)
     opened: list[object] = []
-    monkeypatch.setattr("matcheck.readers.markdown.image_size", opened.append)
+    monkeypatch.setattr("matcheck.readers.image_paths.image_size", opened.append)
     read_markdown(_write(lesson, "![up](../secret.png)\n"), LIMITS)
     assert opened == []
 
