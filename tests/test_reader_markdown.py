@@ -2,7 +2,8 @@
 
 Every expected count is known by construction of the little lesson each test writes. The
 syntax rules relied on are cited beside the checks: "CommonMark" is the CommonMark Spec 0.31.2
-(spec.commonmark.org), "GFM" the GitHub Flavored Markdown Spec 0.29-gfm (tables extension).
+(spec.commonmark.org), "GFM" the GitHub Flavored Markdown Spec 0.29-gfm (tables extension);
+see docs/references.md §15 (and §16 for encodings).
 """
 
 from __future__ import annotations

@@ -11,9 +11,9 @@ HTML or slide reader will meet the same markup; both need the same reading of it
   ``script``, ``style`` and ``template`` hold no lesson text.
 
 Emphasis comes from the tags whose meaning holds without CSS (``b``/``strong``,
-``i``/``em``, ``u``, ``mark``). The standard library's lenient ``html.parser`` does the
-parsing; nothing is fetched, and images are only references (see
-:mod:`matcheck.readers.image_paths` to resolve them).
+``i``/``em``, ``u``, ``mark``; HTML Living Standard 4.5, docs/references.md §15). The
+standard library's lenient ``html.parser`` does the parsing; nothing is fetched, and images
+are only references (see :mod:`matcheck.readers.image_paths` to resolve them).
 """
 
 from __future__ import annotations

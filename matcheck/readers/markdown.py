@@ -1,5 +1,7 @@
 """Read a Markdown lesson with a CommonMark parser (markdown-it-py), never with regexes.
 
+The syntax is CommonMark 0.31.2 with GFM tables (docs/references.md §15).
+
 The token stream of markdown-it (CommonMark, plus tables, YAML front matter, footnotes and a
 small ``==highlight==`` rule) is walked once, in document order:
 

@@ -1,4 +1,4 @@
-"""The table as CSV, for a spreadsheet."""
+"""The table as CSV (RFC 4180, docs/references.md §16), for a spreadsheet."""
 
 from __future__ import annotations
 

@@ -30,7 +30,10 @@ def _phrase(row: MethodsRow, columns: Sequence[str]) -> str:
 
 
 def render_text(table: MethodsTable) -> str:
-    """A paragraph for the methods section, to adapt: what matched, what differed and how."""
+    """A paragraph for the methods section, to adapt: what matched, what differed and how.
+
+    The default reading rate is cited as Brysbaert (2019), docs/references.md §3.
+    """
     count = len(table.columns)
     versions = f"The {_NUMBERS.get(count, str(count))} versions ({join_list(table.columns)})"
     clauses: list[str] = []
