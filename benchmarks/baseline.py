@@ -78,7 +78,7 @@ def formulas(
 
 
 def mtld(tokens: list[str], threshold: float = 0.72) -> float:
-    """McCarthy & Jarvis (2010): mean of the forward and backward factor counts."""
+    """McCarthy & Jarvis (2010): mean of the forward and backward passes (docs/references.md §9)."""
     scores = []
     for sequence in (tokens, tokens[::-1]):
         factors, types, seen = 0.0, set(), 0

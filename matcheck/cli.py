@@ -221,7 +221,7 @@ def table(
 ) -> int:
     """Write the equivalence table for the methods section (one column per condition)."""
     from matcheck.api import check_study
-    from matcheck.report.methods_table import methods_table
+    from matcheck.report.methods import methods_table
     from matcheck.study import load_study
 
     formatter = get(Subject.METHODS, format)

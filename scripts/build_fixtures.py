@@ -10,9 +10,9 @@ Four of the versions form a 2x2 design (diagrams none/with x signaling emphasise
 post-test (``POSTTEST``) is rendered as Markdown and CSV; which paragraph teaches each item is
 checked against the lesson data here, and recorded in ``expected.json``.
 
-Run from the repository root::
+Run from the repository root, with the test extra installed (``pip install -e '.[test]'``)::
 
-    /work/venv/bin/python scripts/build_fixtures.py
+    python scripts/build_fixtures.py
 
 The build is deterministic: fixed metadata dates, fixed ZIP timestamps in the DOCX files and
 no randomness, so a rebuild with the same library versions gives the same bytes.

@@ -1,7 +1,8 @@
 """Readability formulas, MTLD, syllables and word lists against published values and textstat.
 
 Worked examples and their labels (VERIFIED, SECONDARY, COMPUTED) are those of
-/work/shared/REFERENCES.md; "COMPUTED" values are arithmetic from the published formula.
+docs/references.md (section numbers below); "COMPUTED" values are arithmetic from the published
+formula.
 textstat 0.7.8 is the reference library for the cross-checks.
 """
 
@@ -33,7 +34,7 @@ from matcheck.measures.formulas import (
     smog,
 )
 
-# --- §1 Flesch Reading Ease and Flesch–Kincaid Grade -----------------------------------------
+# --- §1 Flesch Reading Ease and Flesch–Kincaid Grade (docs/references.md) ---------------------
 
 
 def test_platypus_sentence() -> None:
@@ -45,7 +46,8 @@ def test_platypus_sentence() -> None:
 
 
 def test_platypus_counts_from_textstat() -> None:
-    # The counts above, as textstat 0.7.8 finds them (REFERENCES §1: "agrees on counts").
+    # The counts above, as textstat 0.7.8 finds them (docs/references.md §1: "finds the same
+    # counts").
     text = "The Australian platypus is seemingly a hybrid of a mammal and reptilian creature."
     assert textstat.lexicon_count(text) == 13
     assert textstat.syllable_count(text) == 24
@@ -89,7 +91,7 @@ def test_flesch_band(score: float, band: str) -> None:
     assert flesch_band(score) == band
 
 
-# --- §2 Gunning fog -------------------------------------------------------------------------
+# --- §2.1 Gunning fog (docs/references.md) ----------------------------------------------------
 
 
 @pytest.mark.parametrize(
@@ -117,7 +119,7 @@ def test_gunning_computed_examples() -> None:
     assert round(gunning_fog(48, 3, 5)) == 11
 
 
-# --- §2 SMOG, Coleman–Liau, ARI -------------------------------------------------------------
+# --- §2.2–2.4 SMOG, Coleman–Liau, ARI (docs/references.md) -------------------------------------
 
 
 def test_smog_computed_examples() -> None:
@@ -142,7 +144,7 @@ def test_automated_readability_computed() -> None:
     assert automated_readability(500, 100, 5) == pytest.approx(12.12, abs=1e-9)
 
 
-# --- §2 Dale–Chall --------------------------------------------------------------------------
+# --- §2.5 Dale–Chall (docs/references.md) -----------------------------------------------------
 
 
 def test_dale_chall_ten_percent() -> None:
@@ -215,13 +217,13 @@ def test_impossible_counts_raise(call: Callable[[], float]) -> None:
         call()
 
 
-# --- §9 MTLD --------------------------------------------------------------------------------
+# --- §9 MTLD (docs/references.md) -------------------------------------------------------------
 
 MTLD_SENTENCE = "the cat sat on the mat and the dog sat on the log and the cat saw the dog"
 
 
 def test_mtld_reference_example() -> None:
-    # REFERENCES §9 (COMPUTED from a reference implementation): 19 tokens, forward 10.5929,
+    # docs/references.md §9 (COMPUTED from a reference implementation): 19 tokens, forward 10.5929,
     # backward 12.5811, MTLD 11.5870, ±1e-4.
     tokens = MTLD_SENTENCE.split()
     assert len(tokens) == 19
@@ -229,8 +231,9 @@ def test_mtld_reference_example() -> None:
 
 
 def test_mtld_each_direction() -> None:
-    # The two passes of REFERENCES §9: forward, a factor closes at token 10 (TTR 7/10), the last
-    # 9 tokens have TTR 7/9, partial 0.7937, 19/1.7937 = 10.5929; backward 12.5811. ±1e-4.
+    # The two passes of docs/references.md §9: forward, a factor closes at token 10 (TTR 7/10),
+    # the last 9 tokens have TTR 7/9, partial 0.7937, 19/1.7937 = 10.5929; backward 12.5811.
+    # ±1e-4.
     tokens = MTLD_SENTENCE.split()
     assert formulas._mtld_pass(tokens, 0.72) == pytest.approx(10.5929, abs=1e-4)
     assert formulas._mtld_pass(tokens[::-1], 0.72) == pytest.approx(12.5811, abs=1e-4)
@@ -252,8 +255,8 @@ def test_mtld_threshold_must_be_a_ratio() -> None:
 # --- Cross-check against textstat 0.7.8 -----------------------------------------------------
 
 # Our own everyday-technical text. Every sentence has more than two words, because textstat's
-# sentence_count drops "sentences" of two words or fewer (REFERENCES §12); no abbreviations or
-# decimals, which its sentence splitter would cut.
+# sentence_count drops "sentences" of two words or fewer (docs/references.md §12); no
+# abbreviations or decimals, which its sentence splitter would cut.
 ROUTER_BIKE_COMPOST = """Most home networks start at a small box called a router. The router hands \
 out addresses to every phone, laptop and television that joins the wireless network. When a \
 device cannot connect, restarting the router clears many temporary problems. Placing the router \
@@ -296,7 +299,8 @@ def test_textstat_sentence_counts_are_whole() -> None:
 
 @pytest.mark.parametrize("text", TEXTS)
 def test_flesch_kincaid_smog_match_textstat(text: str) -> None:
-    # Same counts in, same score out: textstat 0.7.8 uses the same constants (REFERENCES §1–2).
+    # Same counts in, same score out: textstat 0.7.8 uses the same constants
+    # (docs/references.md §1–2).
     words, sentences, syll = _counts(text)
     assert flesch_reading_ease(words, sentences, syll) == pytest.approx(
         textstat.flesch_reading_ease(text), abs=1e-6
@@ -311,8 +315,8 @@ def test_flesch_kincaid_smog_match_textstat(text: str) -> None:
 
 @pytest.mark.parametrize("text", TEXTS)
 def test_coleman_liau_matches_textstat_with_published_constant(text: str) -> None:
-    # textstat 0.7.8 uses 0.058 where Coleman & Liau publish 0.0588 (REFERENCES §2, documented
-    # deviation): its value plus 0.0008·L must equal ours.
+    # textstat 0.7.8 uses 0.058 where Coleman & Liau publish 0.0588 (docs/references.md §2.3,
+    # documented deviation): its value plus 0.0008·L must equal ours.
     words, sentences, _ = _counts(text)
     letters = textstat.letter_count(text)
     per_100_letters = 100 * letters / words
@@ -327,9 +331,10 @@ def test_coleman_liau_matches_textstat_with_published_constant(text: str) -> Non
 def test_fog_and_ari_formulas_match_textstat_given_its_counts(text: str) -> None:
     # The formulas agree; the counts do not. textstat's fog "hard" words are ≥3 syllables and
     # not on its easy list (not Gunning's rule), and its ARI characters include punctuation
-    # (REFERENCES §2). Fed textstat's own counts, our formulas give textstat's scores. Its
-    # public difficult_words() counts distinct words by default (unique=True, although its
-    # docstring says "counts all words"); its scores count every occurrence, so unique=False.
+    # (docs/references.md §2.1, §2.4). Fed textstat's own counts, our formulas give textstat's
+    # scores. Its public difficult_words() counts distinct words by default (unique=True,
+    # although its docstring says "counts all words"); its scores count every occurrence, so
+    # unique=False.
     words, sentences, _ = _counts(text)
     hard = textstat.difficult_words(text, syllable_threshold=3, unique=False)
     assert gunning_fog(words, sentences, hard) == pytest.approx(
@@ -381,7 +386,8 @@ def test_dictionary_words(word: str, expected: int) -> None:
 
 
 def test_out_of_dictionary_word_uses_hyphenation() -> None:
-    # Not in CMU; pyphen en_US finds one hyphenation point → 2 (REFERENCES §12; textstat agrees).
+    # Not in CMU; pyphen en_US finds one hyphenation point → 2 (docs/references.md §12;
+    # textstat agrees).
     assert count_syllables("qwzxyblorp") == 2
     assert textstat.syllable_count("qwzxyblorp") == 2
 
@@ -425,7 +431,8 @@ def test_agrees_with_textstat_on_ordinary_text() -> None:
 
 
 def test_counts_offline(monkeypatch: pytest.MonkeyPatch) -> None:
-    # Everything must work with no network (project rule; REFERENCES §12 recommends this test).
+    # Everything must work with no network (project rule; docs/references.md §12 recommends
+    # this test).
     def refuse(*_args: object, **_kwargs: object) -> NoReturn:
         raise OSError("network disabled in this test")
 
@@ -449,7 +456,7 @@ def test_polysyllabic() -> None:
 @pytest.mark.parametrize(
     ("word", "sentence_initial", "hard"),
     [
-        # Gunning's rule (SECONDARY, REFERENCES §2); syllables from CMU.
+        # Gunning's rule (SECONDARY, docs/references.md §2.1); syllables from CMU.
         ("computer", False, True),  # 3 syllables, nothing excluded
         ("advantages", False, True),  # 4; its stem "advantage" already has 3
         ("router", False, False),  # 2 syllables

@@ -1,6 +1,6 @@
 """TF-IDF key terms and the cosine of passage alignment, checked against published examples.
 
-Sources (see /work/shared/REFERENCES.md §8):
+Sources (docs/references.md §8):
 - scikit-learn User Guide, "Tf–idf term weighting" (doc/modules/feature_extraction.rst): the
   worked example with counts [[3,0,1],[2,0,0],[3,0,0],[4,0,0],[3,2,0],[3,0,2]];
 - scikit-learn ``TfidfTransformer`` docstring: smooth_idf gives idf = ln((1+n)/(1+df)) + 1;
@@ -24,7 +24,7 @@ from matcheck.model import BlockKind
 from matcheck.readers.builder import DocumentBuilder
 from matcheck.settings import Settings
 
-# scikit-learn User Guide worked example (VERIFIED, REFERENCES.md §8).
+# scikit-learn User Guide worked example (VERIFIED, docs/references.md §8).
 SKLEARN_COUNTS = [[3, 0, 1], [2, 0, 0], [3, 0, 0], [4, 0, 0], [3, 2, 0], [3, 0, 2]]
 SKLEARN_IDF = [1.0, 2.25276297, 1.84729786]
 SKLEARN_ROW_1 = [0.85151335, 0.0, 0.52433293]
@@ -91,7 +91,7 @@ def test_sklearn_example_through_real_passages() -> None:
 
 # --- (b) Manning, Raghavan & Schütze §6.3: cosine similarity --------------------------------
 
-# Term counts affection, jealous, gossip, wuthering (REFERENCES.md §8; partly FROM MEMORY).
+# Term counts affection, jealous, gossip, wuthering (docs/references.md §8; partly FROM MEMORY).
 MRS_COUNTS = {
     "SaS": [115, 10, 2, 0],
     "PaP": [58, 7, 0, 0],

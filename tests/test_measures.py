@@ -165,7 +165,7 @@ def test_heading_levels_below_three_are_reported_when_used() -> None:
 
 @pytest.mark.parametrize(
     ("wpm", "minutes"),
-    # Brysbaert (2019): 238 wpm adult silent non-fiction, most adults 175-300; REFERENCES.md §3
+    # Brysbaert (2019): 238 wpm adult silent non-fiction, most adults 175-300; docs/references.md §3
     # COMPUTED: 1,190 words -> 5.00 min at 238, 6.80 at 175, 3.97 at 300.
     [(238.0, 5.00), (175.0, 6.80), (300.0, 3.97)],
 )
@@ -179,7 +179,7 @@ def test_reading_time_is_words_over_rate(wpm: float, minutes: float) -> None:
 
 
 def test_default_rate_is_brysbaert_238() -> None:
-    assert Settings().words_per_minute == 238.0  # Brysbaert (2019), REFERENCES.md §3
+    assert Settings().words_per_minute == 238.0  # Brysbaert (2019), docs/references.md §3
 
 
 # --- readability ----------------------------------------------------------------------------
@@ -200,6 +200,7 @@ def test_readability_values_are_the_formulas_of_the_counts() -> None:
     # one but com-pu-ter (3), o-pen (2), win-dow (2).
     words, sentences = 15, 3
     syllables = 6 + (5 + 3) + (2 + 1 + 2)
+    # Word classes by their sources' rules (docs/references.md §2.1, §2.2, §2.6).
     polysyllables = 1  # computer (McLaughlin 1969: three or more syllables)
     fog_hard = 1  # computer: not a name, not a compound, no -ed/-es (Gunning 1952)
     letters = (3 + 3 + 3 + 2 + 3 + 3) + (2 + 8 + 2 + 2 + 3 + 4) + (4 + 3 + 6)
@@ -242,7 +243,8 @@ def test_dale_chall_list_guard() -> None:
 
 def test_dale_chall_adjustment_setting() -> None:
     # Dale & Chall (1948) via DuBay (2004): 3.6365 always; textstat/Wikipedia: only when the
-    # share of difficult words exceeds 5% (common practice). Here it is 0%.
+    # share of difficult words exceeds 5% (common practice). Here it is 0%. docs/references.md
+    # §2.5.
     builder = _paragraphs("The cat sat on the mat.")
     always = _value(_profile(builder), "dale_chall")
     above_5 = Settings(dale_chall_adjustment="above_5_percent")

@@ -4,7 +4,9 @@ The report comes from ``compare_versions`` on the demo lesson's three Markdown v
 the figures declared as the manipulation. What each cell must say is known outside the
 renderers: the counts by construction in fixtures/demo/expected.json (built from the source
 data, not read back from the files), the planted confounds of fixtures/README.md, and the
-Report's own values for the measured ones (formulas and readers are tested elsewhere).
+Report's own values for the measured ones (formulas and readers are tested elsewhere). The
+style rules (APA 7, ECMA-376, RFC 4180) and the reading rate are those of docs/references.md
+§11, §14, §16 and §3.
 """
 
 from __future__ import annotations
@@ -23,7 +25,7 @@ from matcheck.errors import UsageError
 from matcheck.findings import Finding, Group, Report, Status, Tolerance
 from matcheck.output import write_output
 from matcheck.report.common import format_value
-from matcheck.report.methods_table import (
+from matcheck.report.methods import (
     MethodsTable,
     escape_latex,
     methods_table,

@@ -3,7 +3,7 @@
 Every input is built in the test. Expected items are known by construction (what the test
 wrote); expected coverages follow from the smoothed-idf formula of scikit-learn's
 ``TfidfVectorizer`` (its documentation: idf = ln((1 + n) / (1 + df)) + 1), checked against
-the library itself below.
+the library itself below (docs/references.md §8).
 """
 
 from __future__ import annotations
@@ -80,7 +80,7 @@ def _triples(items: Sequence[PostTestItem]) -> list[tuple[str, str, str]]:
 
 
 def test_csv_with_bom_mixed_case_headers_key_column_and_quoted_commas(tmp_path: Path) -> None:
-    # RFC 4180: a quoted field may hold commas and doubled quotes.
+    # RFC 4180: a quoted field may hold commas and doubled quotes (docs/references.md §16).
     path = _write(
         tmp_path,
         "test.CSV",

@@ -1,6 +1,7 @@
 """The DOCX reader, against small documents built here with python-docx (plus raw XML where
 python-docx has no API). Every expected count is known by construction; element semantics
-are those of ECMA-376 Part 1 (WordprocessingML), cited beside the checks that rely on them.
+are those of ECMA-376 Part 1 (WordprocessingML), cited beside the checks that rely on them
+(docs/references.md §14).
 """
 
 from __future__ import annotations

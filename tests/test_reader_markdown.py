@@ -2,7 +2,8 @@
 
 Every expected count is known by construction of the little lesson each test writes. The
 syntax rules relied on are cited beside the checks: "CommonMark" is the CommonMark Spec 0.31.2
-(spec.commonmark.org), "GFM" the GitHub Flavored Markdown Spec 0.29-gfm (tables extension).
+(spec.commonmark.org), "GFM" the GitHub Flavored Markdown Spec 0.29-gfm (tables extension);
+see docs/references.md §15 (and §16 for encodings).
 """
 
 from __future__ import annotations
@@ -331,7 +332,7 @@ def test_markdown_outside_image_is_never_opened(
     lesson.mkdir()
     _png(tmp_path / "secret.png", 3, 3)
     opened: list[object] = []
-    monkeypatch.setattr("matcheck.readers.markdown.image_size", opened.append)
+    monkeypatch.setattr("matcheck.readers.image_paths.image_size", opened.append)
     read_markdown(_write(lesson, "![up](../secret.png)\n"), LIMITS)
     assert opened == []
 

@@ -3,7 +3,8 @@
 The PDFs are built here with fpdf2 (text placed line by line, so every line end, gap, font
 and size is chosen by the test) or written byte by byte following PDF 32000-1:2008 (for form
 XObjects and inline images, which fpdf2 does not write). Expected values come from that
-construction; the layout thresholds they exercise are common practice.
+construction; the layout thresholds they exercise are common practice. The PDF sections cited
+beside the checks are listed in docs/references.md §13.
 """
 
 from __future__ import annotations

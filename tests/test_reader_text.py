@@ -2,7 +2,7 @@
 
 Paragraph counts are known by construction. Byte values of encodings are those of the
 published tables: RFC 3629 (UTF-8), RFC 2781 (UTF-16 and its byte-order mark), Unicode's
-CP1252.TXT mapping (Windows-1252) and ISO/IEC 8859-1 (Latin-1).
+CP1252.TXT mapping (Windows-1252) and ISO/IEC 8859-1 (Latin-1); docs/references.md §16.
 """
 
 from __future__ import annotations

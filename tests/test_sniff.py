@@ -3,7 +3,8 @@
 Magic numbers are those of the format specifications: "%PDF-" (ISO 32000-1:2008, 7.5.2 File
 Header), the PNG signature 89 50 4E 47 0D 0A 1A 0A (PNG spec, ISO/IEC 15948, 5.2), the ZIP
 local file header PK\\x03\\x04 (PKWARE APPNOTE.TXT 4.3.7), the OLE2 compound file signature
-D0 CF 11 E0 A1 B1 1A E1 ([MS-CFB] 2.2), and byte-order marks of RFC 2781 (UTF-16).
+D0 CF 11 E0 A1 B1 1A E1 ([MS-CFB] 2.2), and byte-order marks of RFC 2781 (UTF-16). See
+docs/references.md §13, §14, §16 and §17.
 """
 
 from __future__ import annotations

@@ -1,5 +1,5 @@
 """Welch's t-test and TOST (matcheck.compare.stats) against reference libraries and a
-published worked example."""
+published worked example (docs/references.md §7)."""
 
 from __future__ import annotations
 
@@ -9,7 +9,7 @@ import pytest
 
 from matcheck.compare.stats import tost_welch_p, welch_p
 
-# REFERENCES §7 (COMPUTED with statsmodels 0.15.0, matches the hand calculation).
+# docs/references.md §7 (COMPUTED with statsmodels 0.15.0, matches the hand calculation).
 X1 = [5, 6, 7, 5, 6, 7, 5, 6, 7, 6, 5, 6, 7, 6, 6, 5, 7, 6, 6, 6]
 X2 = [6, 5, 7, 6, 5, 6, 7, 6, 5, 6, 6, 7, 5, 6, 6, 5, 7, 6, 6, 5]
 

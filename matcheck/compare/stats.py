@@ -3,7 +3,7 @@
 Both are a few lines over the Student t CDF (``scipy.special.stdtr``); importing
 ``scipy.stats`` and statsmodels for them would cost half a second of every run. The tests in
 tests/test_stats.py check these against scipy.stats and statsmodels (reference libraries) and
-against the worked TOST example of REFERENCES §7.
+against the worked TOST example of docs/references.md §7.
 
 Welch (1947): t = (mean_b − mean_a) / √(s²_a/n_a + s²_b/n_b), with the Welch–Satterthwaite
 degrees of freedom. TOST (Schuirmann 1987): equivalence within (low, upp) when both

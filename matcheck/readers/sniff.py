@@ -1,4 +1,7 @@
-"""Tell a file's format from its first bytes, not from its name."""
+"""Tell a file's format from its first bytes, not from its name.
+
+The signatures are those of the format specifications (docs/references.md §13, §14, §16, §17).
+"""
 
 from __future__ import annotations
 

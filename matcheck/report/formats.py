@@ -25,9 +25,9 @@ BUILTIN = (
     Formatter("table", P, f"{_M}.profile:render_profiles_table", "terminal table", console=True),
     Formatter("json", P, f"{_M}.profile:render_profiles_json", "JSON", extension=".json"),
     # table: the methods-section table
-    Formatter("markdown", M, f"{_M}.methods_table:render_markdown", "Markdown", extension=".md"),
-    Formatter("csv", M, f"{_M}.methods_table:render_csv", "CSV", extension=".csv"),
-    Formatter("latex", M, f"{_M}.methods_table:render_latex", "LaTeX", extension=".tex"),
-    Formatter("docx", M, f"{_M}.methods_table:render_docx", "Word", binary=True, extension=".docx"),
-    Formatter("text", M, f"{_M}.methods_table:render_text", "a methods paragraph"),
+    Formatter("markdown", M, f"{_M}.methods.markdown:render_markdown", "Markdown", extension=".md"),
+    Formatter("csv", M, f"{_M}.methods.csv_file:render_csv", "CSV", extension=".csv"),
+    Formatter("latex", M, f"{_M}.methods.latex:render_latex", "LaTeX", extension=".tex"),
+    Formatter("docx", M, f"{_M}.methods.word:render_docx", "Word", binary=True, extension=".docx"),
+    Formatter("text", M, f"{_M}.methods.prose:render_text", "a methods paragraph"),
 )

@@ -1,0 +1,70 @@
+"""The table as a LaTeX ``table`` float with booktabs rules."""
+
+from __future__ import annotations
+
+from matcheck.report.formatter import RenderOptions
+from matcheck.report.methods.model import MethodsTable
+
+# The ten characters LaTeX treats specially, and the non-ASCII signs pdfLaTeX's utf8 input
+# does not define (U+2212, U+2265, U+2264) or defines only in text companion fonts.
+_LATEX = str.maketrans(
+    {
+        "\\": r"\textbackslash{}",
+        "&": r"\&",
+        "%": r"\%",
+        "$": r"\$",
+        "#": r"\#",
+        "_": r"\_",
+        "{": r"\{",
+        "}": r"\}",
+        "~": r"\textasciitilde{}",
+        "^": r"\textasciicircum{}",
+        "−": "$-$",
+        "±": r"$\pm$",
+        "≥": r"$\geq$",
+        "≤": r"$\leq$",
+        "²": r"\textsuperscript{2}",
+    }
+)
+
+
+def escape_latex(text: str) -> str:
+    return text.translate(_LATEX)
+
+
+def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> str:
+    """A complete ``table`` float with booktabs rules; LaTeX numbers it (Table 1 here).
+
+    Needs ``\\usepackage{booktabs}`` in the preamble.
+    """
+    width = len(table.header)
+    spec = "@{}l" + "r" * (len(table.columns) + 1) + "l@{}"
+    lines = [
+        r"\begin{table}[htbp]",
+        r"\centering",
+        f"% Table {table.number} of the matcheck report; LaTeX numbers floats in document order.",
+        rf"\caption{{{escape_latex(table.title)}}}",
+        rf"\label{{tab:equivalence-{table.number}}}",
+        rf"\begin{{tabular}}{{{spec}}}",
+        r"\toprule",
+        " & ".join(escape_latex(cell) for cell in table.header) + r" \\",
+        r"\midrule",
+    ]
+    for index, (_, rows) in enumerate(table.groups()):
+        if index:
+            lines.append(r"\addlinespace")
+        label = escape_latex(rows[0].group_label)
+        lines.append(rf"\multicolumn{{{width}}}{{@{{}}l}}{{\textit{{{label}}}}} \\")
+        for row in rows:
+            cells = (row.label, *row.values, row.difference, row.verdict)
+            lines.append(" & ".join(escape_latex(cell) for cell in cells) + r" \\")
+    lines += [
+        r"\bottomrule",
+        r"\end{tabular}",
+        r"\par\smallskip",
+        r"\begin{minipage}{\linewidth}",
+        rf"\footnotesize\textit{{Note.}} {escape_latex(table.note)}\par",
+        r"\end{minipage}",
+        r"\end{table}",
+    ]
+    return "\n".join(lines) + "\n"

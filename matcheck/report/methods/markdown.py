@@ -1,0 +1,28 @@
+"""The table as a Markdown pipe table, with its number, title and note."""
+
+from __future__ import annotations
+
+from matcheck.report.formatter import RenderOptions
+from matcheck.report.methods.model import MethodsTable
+
+
+def _md(text: str) -> str:
+    return text.replace("|", "\\|").replace("\n", " ")
+
+
+def render_markdown(table: MethodsTable, options: RenderOptions | None = None) -> str:
+    """A pipe table (one line per row, the group in its own column), number, title and note."""
+    header = ("Group", *table.header)
+    lines = [
+        f"**Table {table.number}**",
+        "",
+        f"*{_md(table.title)}*",
+        "",
+        "| " + " | ".join(_md(cell) for cell in header) + " |",
+        "|---|---|" + "--:|" * (len(table.columns) + 1) + "---|",
+    ]
+    for row in table.rows:
+        cells = (row.group_label, row.label, *row.values, row.difference, row.verdict)
+        lines.append("| " + " | ".join(_md(cell) for cell in cells) + " |")
+    lines += ["", f"*Note.* {_md(table.note)}"]
+    return "\n".join(lines) + "\n"
