@@ -67,7 +67,8 @@ class MeasureSpec:
     ``implied_by`` the measure whose manipulation makes this one intended too (figure areas by
     figures); ``needs`` what a format must show for the measure to be known; ``label`` and
     ``phrase`` how tables and prose name it; ``listing`` the name of an item's number where the
-    measure is a list (``weight`` of a key term).
+    measure is a list (``weight`` of a key term); ``prose_unit`` the unit written after a
+    value in the methods paragraph. A measure with a ``phrase`` is a row of the methods table.
     """
 
     id: str
@@ -83,6 +84,7 @@ class MeasureSpec:
     phrase: str = ""
     decimals: int | None = None
     listing: str | None = None
+    prose_unit: str = ""
 
     @property
     def shown_label(self) -> str:

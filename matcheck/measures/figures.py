@@ -41,6 +41,7 @@ DISPLAY_AREA = MeasureSpec(
     implied_by="figures",
     label="Figure area (cm²)",
     phrase="figure area",
+    prose_unit=" cm²",
 )
 CAPTIONS = MeasureSpec(
     "captions",

@@ -18,6 +18,7 @@ WORDS = MeasureSpec(
     Tolerance(relative=0.05, reason=f"5% of the reference; {JUDGMENT}"),
     label="Words",
     phrase="length",
+    prose_unit=" words",
 )
 SENTENCES = MeasureSpec(
     "sentences",
@@ -60,6 +61,7 @@ READING_TIME = MeasureSpec(
     implied_by="words",
     label="Reading time (min)",
     phrase="estimated reading time",
+    prose_unit=" min",
 )
 SPECS = (WORDS, SENTENCES, PARAGRAPHS, CHARACTERS, READING_TIME)
 

@@ -15,20 +15,19 @@ from matcheck.report.methods.csv_file import render_csv
 from matcheck.report.methods.latex import escape_latex, render_latex
 from matcheck.report.methods.markdown import render_markdown
 from matcheck.report.methods.model import (
-    MEASURES,
     NOT_PROOF,
     TITLE,
     VERDICTS,
     MethodsRow,
     MethodsTable,
     TableMeasure,
+    table_measures,
 )
 from matcheck.report.methods.prose import render_text
 from matcheck.report.methods.word import render_docx
 from matcheck.report.methods.wording import join_list
 
 __all__ = [
-    "MEASURES",
     "NOT_PROOF",
     "TITLE",
     "VERDICTS",
@@ -43,4 +42,5 @@ __all__ = [
     "render_latex",
     "render_markdown",
     "render_text",
+    "table_measures",
 ]

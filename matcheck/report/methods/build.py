@@ -8,7 +8,6 @@ from matcheck.findings import Finding, Report, Status
 from matcheck.report.common import GROUP_ORDER, format_difference, format_tolerance, format_value
 from matcheck.report.methods.model import (
     COVERAGE,
-    MEASURES,
     PASSAGES,
     POSTTEST,
     TITLE,
@@ -16,6 +15,7 @@ from matcheck.report.methods.model import (
     MethodsRow,
     MethodsTable,
     TableMeasure,
+    table_measures,
 )
 from matcheck.report.methods.notes import PostTestItems, table_notes
 
@@ -41,7 +41,7 @@ def methods_table(
     if threshold is None and items:
         threshold = report.settings.coverage_threshold
     rows: list[MethodsRow] = []
-    for measure in MEASURES:
+    for measure in table_measures():
         row: MethodsRow | None
         if measure.key == COVERAGE:
             row = _coverage_row(measure, by_dimension.get(COVERAGE, []), columns, report.reference)

@@ -38,43 +38,32 @@ class TableMeasure:
     suffix: str = ""
 
 
-MEASURES = (
-    TableMeasure("words", "length", "Words", "length", " words"),
-    TableMeasure("sentences", "length", "Sentences", "the number of sentences"),
-    TableMeasure("paragraphs", "length", "Paragraphs", "the number of paragraphs"),
-    TableMeasure("reading_time", "length", "Reading time (min)", "estimated reading time", " min"),
-    TableMeasure(
-        "flesch_reading_ease", "readability", "Flesch Reading Ease", "Flesch Reading Ease"
-    ),
-    TableMeasure(
-        "flesch_kincaid_grade", "readability", "Flesch–Kincaid grade", "Flesch–Kincaid grade level"
-    ),
-    TableMeasure("words_per_sentence", "readability", "Words per sentence", "words per sentence"),
-    TableMeasure("syllables_per_word", "readability", "Syllables per word", "syllables per word"),
-    TableMeasure(
-        "rare_words_share",
-        "readability",
-        "Words not on the Dale–Chall list",
-        "the share of words not on the Dale–Chall list",
-    ),
-    TableMeasure(COVERAGE, "content", "Key-term coverage", "key-term coverage"),
+# Rows made from several findings, which no single measure spec describes.
+COMBINED = (
     TableMeasure(
         PASSAGES, "content", "Passages without counterpart", "passages without a counterpart"
-    ),
-    TableMeasure("figures", "figures", "Figures", "the number of figures"),
-    TableMeasure("figure_display_area", "figures", "Figure area (cm²)", "figure area", " cm²"),
-    TableMeasure("captions", "figures", "Captions", "the number of captions"),
-    TableMeasure("headings", "structure", "Headings", "the number of headings"),
-    TableMeasure("list_items", "structure", "List items", "the number of list items"),
-    TableMeasure("tables", "structure", "Tables", "the number of tables"),
-    TableMeasure(
-        "emphasized_words", "signaling", "Emphasized words", "the number of emphasized words"
     ),
     TableMeasure(
         POSTTEST, "assessment", "Post-test items taught", "the number of post-test items taught"
     ),
 )
-BY_KEY = {measure.key: measure for measure in MEASURES}
+
+
+def table_measures() -> tuple[TableMeasure, ...]:
+    """The rows the table can show: every measure whose spec says how prose names it (its
+    ``phrase``), then the combined rows; the table orders them by group."""
+    from matcheck.measures import registry
+
+    from_specs = tuple(
+        TableMeasure(spec.id, spec.group.value, spec.shown_label, spec.phrase, spec.prose_unit)
+        for spec in registry.specs()
+        if spec.phrase
+    )
+    return from_specs + COMBINED
+
+
+def measure_of(key: str) -> TableMeasure:
+    return next(measure for measure in table_measures() if measure.key == key)
 
 
 @dataclass(frozen=True, slots=True)

@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from matcheck.report.formatter import RenderOptions
-from matcheck.report.methods.model import BY_KEY, PASSAGES, MethodsRow, MethodsTable
+from matcheck.report.methods.model import PASSAGES, MethodsRow, MethodsTable, measure_of
 from matcheck.report.methods.wording import join_list
 from matcheck.settings import DEFAULT_WPM
 
@@ -19,7 +19,7 @@ _CLAUSES = (
 
 
 def _phrase(row: MethodsRow, columns: Sequence[str]) -> str:
-    measure = BY_KEY[row.measure]
+    measure = measure_of(row.measure)
     known = [(v, n) for v, n in zip(row.values, columns, strict=True) if v != "—"]
     if row.measure == PASSAGES:  # counted against a counterpart: name whose count it is
         return f"{measure.phrase} ({join_list([f'{v} for {n}' for v, n in known])})"
