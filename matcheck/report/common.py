@@ -14,6 +14,7 @@ from matcheck.findings import (
 )
 from matcheck.measures import registry
 from matcheck.measures.base import UNIT_DECIMALS, Role
+from matcheck.measures.comparisons import KEY_TERM_COVERAGE
 
 STATUS_ORDER = (Status.DIFFERS, Status.INCONCLUSIVE, Status.INTENDED, Status.MATCHED)
 GROUP_ORDER = tuple(Group)
@@ -37,7 +38,7 @@ def format_difference(finding: Finding, *, short: bool = False) -> str:
         return "—"
     spec = registry.spec(finding.dimension)
     if spec is not None and spec.role is Role.PAIRWISE:
-        if finding.dimension == "key_term_coverage":
+        if finding.dimension == KEY_TERM_COVERAGE.id:
             if short:
                 return f"−{finding.difference * 100:.1f}%" if finding.difference else "±0.0%"
             return f"{finding.difference * 100:.1f}% missing"
@@ -61,7 +62,7 @@ def format_difference(finding: Finding, *, short: bool = False) -> str:
 def format_tolerance(finding: Finding, *, short: bool = False) -> str:
     if finding.tolerance is None:
         return "—"
-    if finding.dimension == "key_term_coverage":
+    if finding.dimension == KEY_TERM_COVERAGE.id:
         covered = f"≥{(1 - finding.tolerance.absolute) * 100:g}%"
         return covered if short else f"{covered} covered"
     unit = "" if finding.unit == "share" or short else finding.unit
@@ -126,7 +127,7 @@ def describe_regression(regression: Regression) -> str:
 
 
 def _change_phrase(finding: Finding) -> str:
-    if finding.dimension.startswith("passages_") and finding.difference:
+    if finding.unit == "passages" and finding.difference:
         what = finding.dimension.removeprefix("passages_")
         count = int(finding.difference)
         return f"{count} passage{'s' if count != 1 else ''} {what}"
