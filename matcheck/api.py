@@ -188,6 +188,7 @@ def _study_report(
             [(p.reference, p.condition) for p in pairs],
             threshold=study.comparison.coverage_threshold,
             answer_factor=study.comparison.answer_factor,
+            tolerances=tolerances,
         )
         findings = (*findings, *extra)
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))

@@ -82,6 +82,9 @@ class EvidenceKind(StrEnum):
     LIST_ITEM_ADDED = "list_item_added", "list item of {here} not in {there}"
     TABLE_CELL_REMOVED = "table_cell_removed", "table cell of {here} missing from {there}"
     TABLE_CELL_ADDED = "table_cell_added", "table cell of {here} not in {there}"
+    CAPTION_REMOVED = "caption_removed", "caption of {here} missing from {there}"
+    CAPTION_ADDED = "caption_added", "caption of {here} not in {there}"
+    NO_ALT_TEXT = "no_alt_text", "figure of {here} without alt text"
     FIGURE_ADDED = "figure_added", "figure of {here} not in {there}"
     FIGURE_REMOVED = "figure_removed", "figure of {here} not in {there}"
     EMPHASIS_ADDED = "emphasis_added", "emphasis in {here}, none in {there}"
@@ -89,6 +92,7 @@ class EvidenceKind(StrEnum):
     SENTENCE_LENGTH_CHANGED = "sentence_length_changed", "sentence length in {here}"
     ITEM_TAUGHT = "item_taught", "taught in {here}"
     ITEM_NOT_TAUGHT = "item_not_taught", "not taught in {here}"
+    ITEM_COVERED_LESS = "item_covered_less", "covered less in {here}"
 
 
 @dataclass(frozen=True, slots=True)

@@ -17,6 +17,7 @@ from typing import Any
 from matcheck.errors import ConfigError
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
+_LESSON_SUFFIXES = {".docx", ".pdf", ".md", ".markdown", ".txt", ".doc", ".odt", ".rtf"}
 TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison"}
 STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
 FACTOR_KEYS = {"levels", "manipulates", "description"}
@@ -98,8 +99,20 @@ def load_study(path: Path) -> Study:
     from matcheck.errors import UsageError
     from matcheck.intent import expand_manipulated
 
+    if path.is_dir():
+        raise ConfigError(
+            "is a folder; this command takes one study file (TOML); `check` also takes a "
+            "folder of studies",
+            path=str(path),
+        )
     if not path.is_file():
         raise ConfigError("no such study file", path=str(path))
+    if path.suffix.lower() in _LESSON_SUFFIXES:
+        raise ConfigError(
+            f"is a lesson ({path.suffix}), not a study file; `compare` takes lesson files, "
+            "`check` and `table` a study file (TOML; docs/study-file.md)",
+            path=str(path),
+        )
     try:
         data = tomllib.loads(path.read_text(encoding="utf-8"))
     except UnicodeDecodeError:
@@ -196,8 +209,16 @@ def load_study(path: Path) -> Study:
             f"study.reference = {reference!r} is not a condition ({', '.join(names)})", path=shown
         )
     rate = study.get("reading_rate")
-    if rate is not None and (not isinstance(rate, int | float) or not 20 <= rate <= 2000):
-        raise ConfigError("study.reading_rate must be words per minute, 20 to 2000", path=shown)
+    if rate is not None and (isinstance(rate, bool) or not isinstance(rate, int | float)):
+        raise ConfigError(
+            f"study.reading_rate must be a number (words per minute), not "
+            f"{type(rate).__name__} {rate!r}; write it without quotes",
+            path=shown,
+        )
+    if rate is not None and not 20 <= rate <= 2000:
+        raise ConfigError(
+            f"study.reading_rate must be words per minute, 20 to 2000, not {rate!r}", path=shown
+        )
 
     raw_tolerances = data.get("tolerances", {})
     if not isinstance(raw_tolerances, dict):

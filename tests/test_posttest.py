@@ -281,7 +281,7 @@ def test_item_whose_teaching_paragraph_is_missing_differs(tmp_path: Path) -> Non
     assert bloom.values["full"] is not None and bloom.values["full"] >= DEFAULT_COVERAGE
     assert bloom.values["cut"] is not None and bloom.values["cut"] < DEFAULT_COVERAGE
     assert bloom.difference == pytest.approx(bloom.values["cut"] - bloom.values["full"])
-    assert bloom.tolerance is not None and bloom.tolerance.absolute == 0
+    assert bloom.tolerance is not None and bloom.tolerance.absolute == 0.15
     taught, not_taught = bloom.evidence
     assert taught.kind == "item_taught" and taught.condition == "full"
     # By construction the bloom paragraph is body paragraph 2 of "full".
@@ -441,7 +441,14 @@ def test_demo_posttest_text_only_against_confounded() -> None:
                 taught = finding.evidence[0]
                 assert taught.location is not None
                 assert taught.location.section == item["taught_by"]["section"]
-                assert taught.text.startswith(item["taught_by"]["first_words"])
+                # The quoted sentences come from the teaching paragraph (known by construction).
+                paragraph = next(
+                    b.block.text
+                    for b in analyses["text-only"].blocks
+                    if b.block.text.startswith(item["taught_by"]["first_words"])
+                )
+                for part in taught.text.removesuffix(" …").split(" … "):
+                    assert part in paragraph
                 for word in item.get("unique_words", []):
                     # Lemmas: "deeper" is looked up as "deep".
                     assert word.removesuffix("er") in finding.evidence[1].counterpart_text
@@ -452,3 +459,37 @@ def test_demo_posttest_text_only_against_confounded() -> None:
         assert expected["taught_only_by_removed_paragraph"] == [
             f.item for f in findings if f.status is Status.DIFFERS
         ]
+
+
+def test_a_drop_of_coverage_beyond_tolerance_differs_though_both_teach() -> None:
+    # By construction: b keeps "bloom" but loses "release" and "gas"; at a threshold of 0.3
+    # both versions teach the item, and the drop (well over 15 points) is still reported.
+    analyses = {
+        "a": _lesson("a", ["Coffee bloom releases gas.", "Coffee grinder."]),
+        "b": _lesson("b", ["Coffee bloom here.", "Coffee grinder."]),
+    }
+    item = PostTestItem("Q1", "What happens in the bloom?", "The bloom releases gas.", "t", None)
+    findings, _ = assess_posttest([item], analyses, [("a", "b")], threshold=0.2)
+    (finding,) = findings
+    a, b = finding.values["a"], finding.values["b"]
+    assert a is not None and b is not None
+    assert b >= 0.2 and a - b > 0.15  # taught in both (threshold 0.2), fell by over 0.15
+    assert finding.status is Status.DIFFERS
+    assert finding.reason.endswith("taught differently")
+    assert [e.kind.value for e in finding.evidence] == ["item_taught", "item_covered_less"]
+    assert finding.evidence[0].condition == "a"
+
+
+def test_a_small_drop_of_coverage_is_within_tolerance() -> None:
+    # Eight answer terms; b lacks one ("fresh"), about a seventh of the weight.
+    answer = "The bloom releases carbon dioxide gas from fresh roasted beans."
+    analyses = {
+        "a": _lesson("a", [f"Wait for it. {answer}", "Tea kettle."]),
+        "b": _lesson("b", [f"Wait for it. {answer.replace('fresh ', '')}", "Tea kettle."]),
+    }
+    item = PostTestItem("Q1", "Why wait for the bloom?", answer, "t", None)
+    findings, _ = assess_posttest([item], analyses, [("a", "b")], threshold=0.3)
+    (finding,) = findings
+    a, b = finding.values["a"], finding.values["b"]
+    assert a is not None and b is not None and 0 < a - b <= 0.15
+    assert finding.status is Status.MATCHED

@@ -31,14 +31,15 @@ version teaches.
 from __future__ import annotations
 
 import math
+import re
 from collections import Counter
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
-from matcheck.compare.content import excerpt
+from matcheck.compare.content import EXCERPT_WORDS, content_terms, excerpt
 from matcheck.compare.decide import Observation, decide
 from matcheck.errors import ConfigError
-from matcheck.findings import Evidence, EvidenceKind, Finding
+from matcheck.findings import Evidence, EvidenceKind, Finding, Tolerance
 from matcheck.language.analysis import Analysis
 from matcheck.measures.comparisons import ITEM_COVERAGE
 from matcheck.measures.key_terms import Passage, passages
@@ -140,6 +141,7 @@ def assess_posttest(
     *,
     threshold: float | None = None,
     answer_factor: float = ANSWER_FACTOR,
+    tolerances: Mapping[str, Tolerance] | None = None,
 ) -> tuple[tuple[Finding, ...], tuple[str, ...]]:
     """Findings (group ``assessment``) for every item and pair, and the study's warnings."""
     limit = DEFAULT_COVERAGE if threshold is None else threshold
@@ -149,6 +151,7 @@ def assess_posttest(
     every = [unigrams(unit) for name in units for unit in units[name]]
     frequency = Counter(term for terms in every for term in terms)
     items = posttest.items
+    tolerances = tolerances or {}
     needed = item_terms(items, posttest.analysis, posttest.slots, answer_factor)
     warnings: list[str] = []
     covered: dict[tuple[str, str], Coverage] = {}
@@ -174,7 +177,7 @@ def assess_posttest(
                 "is taught in no condition: the test asks for what no version teaches"
             )
     observed = [
-        _observe(terms, reference, condition, covered, weighted[terms.item.id], limit)
+        _observe(terms, reference, condition, covered, weighted[terms.item.id], limit, tolerances)
         for reference, condition in pairs
         for terms in assessed
     ]
@@ -200,31 +203,42 @@ def _observe(
     covered: Mapping[tuple[str, str], Coverage],
     weights: Mapping[str, float],
     limit: float,
+    tolerances: Mapping[str, Tolerance],
 ) -> Observation:
     item = terms.item
     ref, cond = covered[item.id, reference], covered[item.id, condition]
     taught = {reference: ref.share >= limit, condition: cond.share >= limit}
+    spec = ITEM_COVERAGE
+    tolerance = tolerances.get(spec.id, spec.tolerance)
+    change = cond.share - ref.share
     evidence: tuple[Evidence, ...] = ()
     beyond = ""
-    if taught[reference] != taught[condition]:
-        yes, no = (reference, condition) if taught[reference] else (condition, reference)
-        beyond = f"{item.id} is taught in {yes} but not in {no}"
-        good, weak = covered[item.id, yes], covered[item.id, no]
-        # Heaviest first: the distinctive words the weak condition lacks.
+    mismatch = taught[reference] != taught[condition]
+    if mismatch or abs(change) > tolerance.allowed(0.0):
+        more, less = (reference, condition) if ref.share >= cond.share else (condition, reference)
+        good, weak = covered[item.id, more], covered[item.id, less]
+        if mismatch:
+            beyond = f"{item.id} is taught in {more} but not in {less}"
+        else:
+            beyond = (
+                f"{item.id} is covered {good.share:.0%} in {more} but {weak.share:.0%} in "
+                f"{less}: taught differently"
+            )
+        # Heaviest first: the distinctive words the weaker condition lacks.
         missing = sorted(terms.factors.keys() - weak.present, key=lambda t: (-weights[t], t))
-        assert good.passage is not None  # taught means some window holds terms
+        assert good.passage is not None  # the better window holds some of the terms
         evidence = (
             Evidence(
                 kind=EvidenceKind.ITEM_TAUGHT,
-                condition=yes,
-                text=excerpt(good.passage.text),
+                condition=more,
+                text=teaching_sentences(good.passage.text, weights),
                 location=good.location,
                 weight=good.share,
                 counterpart=weak.location,
             ),
             Evidence(
-                kind=EvidenceKind.ITEM_NOT_TAUGHT,
-                condition=no,
+                kind=EvidenceKind.ITEM_NOT_TAUGHT if mismatch else EvidenceKind.ITEM_COVERED_LESS,
+                condition=less,
                 text=item.question,
                 location=weak.location,
                 weight=weak.share,
@@ -232,18 +246,39 @@ def _observe(
                 counterpart_text=f"missing: {', '.join(missing)}",
             ),
         )
-    spec = ITEM_COVERAGE
     return Observation(
         spec=spec,
         reference=reference,
         condition=condition,
         values={reference: ref.share, condition: cond.share},
-        difference=cond.share - ref.share,
-        # Judged on whether it is taught: one in one condition only is one too many.
-        amount=float(taught[reference] != taught[condition]),
-        tolerance=spec.tolerance,
+        difference=change,
+        # Taught in one condition only is beyond any tolerance; else the change of coverage.
+        amount=math.inf if taught[reference] != taught[condition] else change,
+        tolerance=tolerance,
         evidence=evidence,
         item=item.id,
         beyond=beyond,
         within="taught in both" if taught[reference] else "taught in neither",
     )
+
+
+_WORD = re.compile(r"[a-z]+")
+_SENTENCE_END = re.compile(r"(?<=[.!?])\s+(?=[A-Z0-9“\"(])")
+
+
+def teaching_sentences(text: str, weights: Mapping[str, float], most: int = 2) -> str:
+    """The sentences of ``text`` that carry most of an item's weighted terms, in reading
+    order (at most ``most``): what a reader checks, rather than the passage's first words.
+
+    Sentences are split at a full stop, question or exclamation mark followed by a capital or
+    a digit; the split only chooses the excerpt, it is not counted anywhere.
+    """
+    sentences = _SENTENCE_END.split(text.strip())
+    scored = [
+        (sum(weights.get(term, 0.0) for term in content_terms(_WORD.findall(s.lower()))), index)
+        for index, s in enumerate(sentences)
+    ]
+    ranked = sorted(scored, key=lambda pair: (-pair[0], pair[1]))[:most]
+    best = sorted(index for score, index in ranked if score > 0)
+    chosen = " … ".join(sentences[i] for i in best) if best else text
+    return excerpt(chosen, 2 * EXCERPT_WORDS)

@@ -237,7 +237,7 @@ def compare_content(
     )
 
 
-def _content_terms(words: Sequence[str]) -> set[str]:
+def content_terms(words: Sequence[str]) -> set[str]:
     from matcheck.language.pipeline import lemma, stop_words
 
     stops = stop_words()
@@ -261,7 +261,7 @@ def novelty(
     what the run says is lost, or new. 0 when fewer than :data:`MIN_NOVEL_TERMS` terms are new
     (a reworded phrase, "about twenty minutes" -> "roughly a third of an hour", is not content).
     """
-    terms = _content_terms(run)
+    terms = content_terms(run)
     novel = terms - other_vocabulary
     if len(novel) < min_novel_terms:
         return 0.0

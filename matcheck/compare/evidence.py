@@ -55,6 +55,15 @@ def _evidence(
         return _blocks_only_in_one(ref, other, names, BlockKind.TABLE_CELL, _TABLE_CELL)
     if dimension == "figures":
         return _figures(ref, other, names)
+    if dimension in ("captions", "caption_words"):
+        return _blocks_only_in_one(ref, other, names, BlockKind.CAPTION, _CAPTION)
+    if dimension == "figures_without_alt_text":
+        return [
+            Evidence(EvidenceKind.NO_ALT_TEXT, name, f.caption or f.source, f.location)
+            for name, profile in zip(names, (ref, other), strict=True)
+            for f in profile.document.figures
+            if not f.alt_text
+        ]
     if dimension == "emphasized_words" or _follows(dimension, "emphasized_words"):
         return _emphasis(ref, other, names)
     return []
@@ -68,6 +77,7 @@ def _follows(dimension: str, cause: str) -> bool:
 _HEADING = (EvidenceKind.HEADING_REMOVED, EvidenceKind.HEADING_ADDED)
 _LIST_ITEM = (EvidenceKind.LIST_ITEM_REMOVED, EvidenceKind.LIST_ITEM_ADDED)
 _TABLE_CELL = (EvidenceKind.TABLE_CELL_REMOVED, EvidenceKind.TABLE_CELL_ADDED)
+_CAPTION = (EvidenceKind.CAPTION_REMOVED, EvidenceKind.CAPTION_ADDED)
 
 
 def _blocks_only_in_one(

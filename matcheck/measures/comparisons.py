@@ -81,7 +81,11 @@ ITEM_COVERAGE = MeasureSpec(
     Group.ASSESSMENT,
     "share",
     "Coverage of each post-test item's terms; taught at the study's threshold",
-    Tolerance(reason="an item taught in one condition must be taught in the other"),
+    Tolerance(
+        absolute=0.15,
+        reason="an item taught in one condition must be taught in the other, and its coverage "
+        f"may not fall by more than 15 points; {JUDGMENT}",
+    ),
     role=Role.ITEM,
     label="Post-test item",
 )

@@ -17,7 +17,7 @@ from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 from matcheck.model import Capability, Document
 from matcheck.readers.builder import MAX_WARNINGS
 from matcheck.readers.deadline import deadline
-from matcheck.readers.sniff import EXTENSIONS, sniff_format
+from matcheck.readers.sniff import EXTENSIONS, looks_like_markdown, sniff_format
 
 Reader = Callable[[Path, ReadLimits], Document]
 
@@ -157,6 +157,15 @@ def _read(path: Path, limits: ReadLimits) -> Document:
         )
     if not any(block.text for block in document.blocks):
         raise NoText("the file holds no lesson text", path=shown)
+    if fmt == "text" and looks_like_markdown(head.decode("utf-8", "replace")):
+        document = replace(
+            document,
+            warnings=(
+                "the text looks like Markdown (headings, lists or emphasis marked with #, - or "
+                "**); name the file .md so that its structure is read",
+                *document.warnings,
+            ),
+        )
     return document
 
 

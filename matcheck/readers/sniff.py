@@ -40,7 +40,7 @@ _BINARY_MAGIC = {
     b"\x89PNG": "a PNG image",
     b"\xff\xd8\xff": "a JPEG image",
     b"GIF8": "a GIF image",
-    b"{\\rtf": "an RTF document",
+    b"{\\rtf": "an RTF document (save it as .docx)",
     b"\x1f\x8b": "a gzip archive",
     b"7z\xbc\xaf": "a 7-Zip archive",
     b"Rar!": "a RAR archive",
@@ -68,6 +68,14 @@ def sniff_format(head: bytes, path: Path) -> str:
     ):
         return "pdf"
     if head.startswith(_ZIP_MAGIC):
+        # An OpenDocument package stores its media type first, uncompressed (ODF 1.2 Part 3
+        # §3.3), so it shows in the first bytes.
+        if b"mimetypeapplication/vnd.oasis.opendocument" in head[:120]:
+            raise UnsupportedFormat(
+                "this is an OpenDocument file (.odt), not a Word document",
+                path=shown,
+                hint="save it as .docx, e.g. in LibreOffice with File, Save As, Word",
+            )
         return "docx"
     if head.startswith(_OLE_MAGIC):
         if b"E\x00n\x00c\x00r\x00y\x00p\x00t\x00e\x00d\x00P\x00a\x00c\x00k\x00a\x00g\x00e" in head:
@@ -122,3 +130,15 @@ def _control_share(codes: Sequence[int]) -> float:
         return 0.0
     controls = sum(1 for code in codes if code < 32 and code not in (9, 10, 12, 13))
     return controls / len(codes)
+
+
+_MARKDOWN_LINE = re.compile(
+    r"^(?:#{1,6} \S|[-*+] \S|\d+[.)] \S|> |```|\|.*\|\s*$)|\*\*\S[^*]*\*\*|\[[^\]]+\]\([^)]+\)"
+)
+
+
+def looks_like_markdown(text: str) -> bool:
+    """Whether plain text carries Markdown markup on several lines (headings, lists, bold,
+    links, tables, fences): then its structure is lost when it is read as plain text."""
+    marked = sum(1 for line in text.splitlines()[:400] if _MARKDOWN_LINE.search(line))
+    return marked >= 3
