@@ -190,6 +190,18 @@ def _study_report(
             answer_factor=study.comparison.answer_factor,
         )
         findings = (*findings, *extra)
+    data = None
+    if study.data is not None:
+        from matcheck.data.assess import assess_data
+
+        extra, data = assess_data(
+            study.data,
+            [c.name for c in study.conditions],
+            study.reference,
+            [(p.reference, p.condition) for p in pairs],
+            findings,
+        )
+        findings = (*findings, *extra)
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
     return Report(
         conditions=tuple(conditions),
@@ -202,6 +214,7 @@ def _study_report(
         title=study.title,
         warnings=warnings,
         settings=study.comparison,
+        data=data,
     )
 
 

@@ -14,10 +14,11 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+from matcheck.data.spec import DataSpec, parse_data
 from matcheck.errors import ConfigError
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
-TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison"}
+TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison", "data"}
 STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
 FACTOR_KEYS = {"levels", "manipulates", "description"}
 CONDITION_KEYS = {"name", "files", "levels", "description"}
@@ -64,6 +65,8 @@ class Study:
     posttest: tuple[Path, ...]
     coverage_threshold: float | None
     comparison: ComparisonSettings = DEFAULT_COMPARISON
+    # The learners' data ([data], docs/study-data.md); None without it.
+    data: DataSpec | None = None
 
     def condition(self, name: str) -> StudyCondition:
         return next(c for c in self.conditions if c.name == name)
@@ -233,6 +236,7 @@ def load_study(path: Path) -> Study:
         raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
 
     comparison = _comparison(path, data.get("comparison", {}), threshold)
+    learners = parse_data(path, data["data"]) if "data" in data else None
     return Study(
         path=path,
         title=title,
@@ -244,6 +248,7 @@ def load_study(path: Path) -> Study:
         posttest=post_files,
         coverage_threshold=float(threshold) if threshold is not None else None,
         comparison=comparison,
+        data=learners,
     )
 
 
