@@ -12,9 +12,16 @@ a significant effect of the manipulation is intended.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 
-from matcheck.data.learners import ItemScores, LearnerData, read_learners, read_pilot, study_scores
+from matcheck.data.learners import (
+    ItemScores,
+    Learner,
+    LearnerData,
+    read_learners,
+    read_pilot,
+    study_scores,
+)
 from matcheck.data.spec import DataSpec
 from matcheck.data.summary import Attrition, BaselineRow, GroupStats, Instrument, StudyData
 from matcheck.findings import Evidence, Finding, StatTest, Status, Tolerance
@@ -116,9 +123,7 @@ def assess_data(
             findings.append(
                 _outcome_finding(data, spec, pair, reliability, [*lesson_findings, *findings])
             )
-    return tuple(findings), StudyData(
-        reference, tuple(baseline), instruments, attrition, sentence
-    )
+    return tuple(findings), StudyData(reference, tuple(baseline), instruments, attrition, sentence)
 
 
 # -- post-test quality ------------------------------------------------------------------
@@ -165,10 +170,20 @@ def _coverage(item: str, lesson: Sequence[Finding]) -> str:
     if not mine:
         return "—"
     gaps = sorted(
-        {e.condition for f in mine if f.status is Status.DIFFERS for e in f.evidence
-         if e.kind == "item_not_taught"}
+        {
+            e.condition
+            for f in mine
+            if f.status is Status.DIFFERS
+            for e in f.evidence
+            if e.kind == "item_not_taught"
+        }
     )
-    return f"not taught in {', '.join(gaps)}" if gaps else "same in every condition"
+    if gaps:
+        return f"not taught in {', '.join(gaps)}"
+    reasons = {f.reason for f in mine}
+    if reasons == {"taught in neither"}:
+        return "taught in no condition"
+    return "taught in every condition" if reasons == {"taught in both"} else "same in every pair"
 
 
 def _instrument_findings(instrument: Instrument) -> list[Finding]:
@@ -178,14 +193,24 @@ def _instrument_findings(instrument: Instrument) -> list[Finding]:
     value = instrument.reliability
     if value is None:
         result.append(
-            _finding("reliability", "instrument", "score", pair, Status.INCONCLUSIVE,
-                     {instrument.source: None}, None,
-                     f"{instrument.coefficient} cannot be computed: every learner has the same "
-                     f"total ({where})")
+            _finding(
+                "reliability",
+                "instrument",
+                "score",
+                pair,
+                Status.INCONCLUSIVE,
+                {instrument.source: None},
+                None,
+                f"{instrument.coefficient} cannot be computed: every learner has the same "
+                f"total ({where})",
+            )
         )
     else:
         low, high = instrument.interval or (math.nan, math.nan)
-        reason = f"{instrument.coefficient} = {value:.2f} (95% CI {low:.2f} to {high:.2f}, Feldt) on {where}"
+        reason = (
+            f"{instrument.coefficient} = {value:.2f} (95% CI {low:.2f} to {high:.2f}, Feldt) "
+            f"on {where}"
+        )
         if instrument.needed is not None and instrument.needed > instrument.items:
             reason += (
                 f"; about {instrument.needed} items like these would reach "
@@ -196,31 +221,48 @@ def _instrument_findings(instrument: Instrument) -> list[Finding]:
         ok = value >= RELIABILITY_MIN
         reason += "" if ok else f"; below {RELIABILITY_MIN:.2f} (common practice)"
         result.append(
-            _finding("reliability", "instrument", "score", pair,
-                     Status.MATCHED if ok else Status.INCONCLUSIVE,
-                     {instrument.source: value}, None, reason,
-                     tolerance=Tolerance(absolute=RELIABILITY_MIN,
-                                         reason="minimum reliability, common practice"))
+            _finding(
+                "reliability",
+                "instrument",
+                "score",
+                pair,
+                Status.MATCHED if ok else Status.INCONCLUSIVE,
+                {instrument.source: value},
+                None,
+                reason,
+                tolerance=Tolerance(
+                    absolute=RELIABILITY_MIN, reason="minimum reliability, common practice"
+                ),
+            )
         )
     for name, share, end in (
         ("ceiling", instrument.ceiling, f"the maximum ({instrument.maximum:g})"),
         ("floor", instrument.floor, "the minimum (0)"),
     ):
-        bad = share > rel.CEILING_SHARE
-        reason = (
-            f"{share * 100:.1f}% of learners scored {end}; "
-            + ("more than 15%: differences at that end cannot show (Terwee et al. 2007)"
-               if bad else "at most 15% (Terwee et al. 2007)")
+        bad = rel.end_effect(share)
+        reason = f"{share * 100:.1f}% of learners scored {end}; " + (
+            "more than 15%: differences at that end cannot show (Terwee et al. 2007)"
+            if bad
+            else "at most 15% (Terwee et al. 2007)"
         )
         result.append(
-            _finding(name, "instrument", "share", pair,
-                     Status.INCONCLUSIVE if bad else Status.MATCHED,
-                     {instrument.source: share}, None, reason,
-                     tolerance=Tolerance(absolute=rel.CEILING_SHARE,
-                                         reason="Terwee et al. 2007 (docs/references.md §10)"))
+            _finding(
+                name,
+                "instrument",
+                "share",
+                pair,
+                Status.INCONCLUSIVE if bad else Status.MATCHED,
+                {instrument.source: share},
+                None,
+                reason,
+                tolerance=Tolerance(
+                    absolute=rel.CEILING_SHARE, reason="Terwee et al. 2007 (docs/references.md §10)"
+                ),
+            )
         )
     weak = [
-        s for s in instrument.item_stats
+        s
+        for s in instrument.item_stats
         if s.discrimination is None or s.discrimination < DISCRIMINATION_MIN
     ]
     evidence = tuple(
@@ -228,20 +270,31 @@ def _instrument_findings(instrument: Instrument) -> list[Finding]:
             kind="weak_item",
             condition=instrument.source,
             text=f"{s.item}: difficulty {s.difficulty:.2f}, corrected item-total r "
-            + ("— (everyone scored the same)" if s.discrimination is None
-               else f"{s.discrimination:.2f}"),
+            + (
+                "— (everyone scored the same)"
+                if s.discrimination is None
+                else f"{s.discrimination:.2f}"
+            ),
         )
         for s in weak
     )
     result.append(
-        _finding("item_discrimination", "instrument", "items", pair,
-                 Status.INCONCLUSIVE if weak else Status.MATCHED,
-                 {instrument.source: float(len(weak))}, None,
-                 (f"{len(weak)} of {instrument.items} items discriminate poorly "
-                  f"(corrected item-total r below {DISCRIMINATION_MIN:.2f}, common practice)")
-                 if weak else "every item's corrected item-total r is at least "
-                 f"{DISCRIMINATION_MIN:.2f}",
-                 evidence=evidence)
+        _finding(
+            "item_discrimination",
+            "instrument",
+            "items",
+            pair,
+            Status.INCONCLUSIVE if weak else Status.MATCHED,
+            {instrument.source: float(len(weak))},
+            None,
+            (
+                f"{len(weak)} of {instrument.items} items discriminate poorly "
+                f"(corrected item-total r below {DISCRIMINATION_MIN:.2f}, common practice)"
+            )
+            if weak
+            else f"every item's corrected item-total r is at least {DISCRIMINATION_MIN:.2f}",
+            evidence=evidence,
+        )
     )
     return result
 
@@ -249,14 +302,15 @@ def _instrument_findings(instrument: Instrument) -> list[Finding]:
 # -- groups: baseline, attrition, exposure ---------------------------------------------
 
 
-def _baseline_rows(data: LearnerData, conditions: Sequence[str], reference: str) -> list[BaselineRow]:
+def _baseline_rows(
+    data: LearnerData, conditions: Sequence[str], reference: str
+) -> list[BaselineRow]:
     rows = []
     for measure, statistic, getter in _baseline_measures(data):
         groups = []
         samples = {}
         for condition in conditions:
-            values = [v for x in data.of(condition) if x.completed
-                      if (v := getter(x)) is not None]
+            values = [v for x in data.of(condition) if x.completed if (v := getter(x)) is not None]
             samples[condition] = values
             summary = _summary(values)
             if summary is not None:
@@ -272,14 +326,24 @@ def _baseline_rows(data: LearnerData, conditions: Sequence[str], reference: str)
     return rows
 
 
-def _baseline_measures(data: LearnerData) -> list[tuple[str, str, object]]:
-    measures: list[tuple[str, str, object]] = []
+Getter = Callable[[Learner], float | None]
+
+
+def _baseline_measures(data: LearnerData) -> list[tuple[str, str, Getter]]:
+    measures: list[tuple[str, str, Getter]] = []
     if data.pretest_columns:
         measures.append(("pretest", "g", lambda x: x.pretest))
     for trait in data.traits:
         statistic = "Cox" if trait in data.binary_traits else "g"
-        measures.append((trait, statistic, lambda x, t=trait: x.traits.get(t)))
+        measures.append((trait, statistic, _trait_getter(trait)))
     return measures
+
+
+def _trait_getter(trait: str) -> Getter:
+    def get(learner: Learner) -> float | None:
+        return learner.traits.get(trait)
+
+    return get
 
 
 def _effect(control: Sequence[float], treatment: Sequence[float], statistic: str) -> float | None:
@@ -296,8 +360,7 @@ def _baseline_findings(data: LearnerData, spec: DataSpec, pair: tuple[str, str])
     result = []
     for measure, statistic, getter in _baseline_measures(data):
         samples = [
-            [v for x in data.of(c) if x.completed if (v := getter(x)) is not None]  # type: ignore[operator]
-            for c in pair
+            [v for x in data.of(c) if x.completed if (v := getter(x)) is not None] for c in pair
         ]
         effect = _effect(samples[0], samples[1], statistic)
         means = [math.fsum(s) / len(s) if s else None for s in samples]
@@ -306,10 +369,18 @@ def _baseline_findings(data: LearnerData, spec: DataSpec, pair: tuple[str, str])
         tolerance = Tolerance(absolute=EQUIVALENT_MAX, reason=WWC)
         if effect is None:
             result.append(
-                _finding(f"baseline:{measure}", "groups", "SD", pair, Status.INCONCLUSIVE,
-                         values, None,
-                         f"the {label} of {measure} cannot be computed (too few learners, no "
-                         "spread, or a share of 0 or 1)", tolerance=tolerance)
+                _finding(
+                    f"baseline:{measure}",
+                    "groups",
+                    "SD",
+                    pair,
+                    Status.INCONCLUSIVE,
+                    values,
+                    None,
+                    f"the {label} of {measure} cannot be computed (too few learners, no "
+                    "spread, or a share of 0 or 1)",
+                    tolerance=tolerance,
+                )
             )
             continue
         band = wwc_band(effect)
@@ -329,10 +400,22 @@ def _baseline_findings(data: LearnerData, spec: DataSpec, pair: tuple[str, str])
                 f"{100 * (1 - 2 * spec.alpha):g}% CI {result_t.ci_low:+.3g} to "
                 f"{result_t.ci_high:+.3g}; {verdict}",
             )
-            reason += f"; TOST p = {result_t.p:.3f} ({verdict} within ±{spec.equivalence_bound:g} SD)"
+            reason += (
+                f"; TOST p = {result_t.p:.3f} ({verdict} within ±{spec.equivalence_bound:g} SD)"
+            )
         result.append(
-            _finding(f"baseline:{measure}", "groups", "SD", pair, _STATUS[band], values, effect,
-                     reason, tolerance=tolerance, test=test)
+            _finding(
+                f"baseline:{measure}",
+                "groups",
+                "SD",
+                pair,
+                _STATUS[band],
+                values,
+                effect,
+                reason,
+                tolerance=tolerance,
+                test=test,
+            )
         )
     return result
 
@@ -341,7 +424,8 @@ def _attrition_rates(data: LearnerData, spec: DataSpec, pair: tuple[str, str]) -
     randomised = tuple(len(data.of(c)) for c in pair)
     analysed = tuple(sum(1 for x in data.of(c) if x.completed) for c in pair)
     return AttritionRates(
-        (randomised[0], randomised[1]), (analysed[0], analysed[1]),
+        (randomised[0], randomised[1]),
+        (analysed[0], analysed[1]),
         Assumption(spec.attrition_boundary),
     )
 
@@ -360,21 +444,32 @@ def _attrition_finding(data: LearnerData, spec: DataSpec, pair: tuple[str, str])
             f"boundary ({limit * 100:.1f} points at this overall rate; {ATTRITION_SOURCE})"
         )
     return _finding(
-        "attrition", "groups", "share", pair,
+        "attrition",
+        "groups",
+        "share",
+        pair,
         Status.MATCHED if rates.low else Status.DIFFERS,
         {pair[0]: rates.rates[0], pair[1]: rates.rates[1]},
-        rates.rates[1] - rates.rates[0], reason,
+        rates.rates[1] - rates.rates[0],
+        reason,
         tolerance=Tolerance(absolute=limit or 0.0, reason=ATTRITION_SOURCE),
     )
 
 
 def _time_finding(data: LearnerData, spec: DataSpec, pair: tuple[str, str]) -> Finding:
     samples = [[x.time for x in data.of(c) if x.completed and x.time is not None] for c in pair]
-    a, b = _summary(samples[0]), _summary(samples[1])  # type: ignore[arg-type]
+    a, b = _summary(samples[0]), _summary(samples[1])
     if a is None or b is None or not pooled_sd(a, b):
-        return _finding("time_on_task", "groups", "minutes", pair, Status.INCONCLUSIVE,
-                        {pair[0]: a.mean if a else None, pair[1]: b.mean if b else None}, None,
-                        "too few times on task (or no spread) to compare")
+        return _finding(
+            "time_on_task",
+            "groups",
+            "minutes",
+            pair,
+            Status.INCONCLUSIVE,
+            {pair[0]: a.mean if a else None, pair[1]: b.mean if b else None},
+            None,
+            "too few times on task (or no spread) to compare",
+        )
     bound = spec.time_bound or spec.equivalence_bound * pooled_sd(a, b)
     equivalence = tost(a, b, -bound, bound, spec.alpha)
     difference = student_t(a, b)
@@ -391,12 +486,21 @@ def _time_finding(data: LearnerData, spec: DataSpec, pair: tuple[str, str]) -> F
     if status is not Status.MATCHED:
         reason += "; time, not the manipulation, may explain a difference in learning"
     return _finding(
-        "time_on_task", "groups", "minutes", pair, status, {pair[0]: a.mean, pair[1]: b.mean},
-        b.mean - a.mean, reason,
+        "time_on_task",
+        "groups",
+        "minutes",
+        pair,
+        status,
+        {pair[0]: a.mean, pair[1]: b.mean},
+        b.mean - a.mean,
+        reason,
         tolerance=Tolerance(absolute=bound, reason="equivalence bounds of the TOST"),
-        test=StatTest("TOST", equivalence.p,
-                      f"{100 * (1 - 2 * spec.alpha):g}% CI {equivalence.ci_low:+.3g} to "
-                      f"{equivalence.ci_high:+.3g} minutes"),
+        test=StatTest(
+            "TOST",
+            equivalence.p,
+            f"{100 * (1 - 2 * spec.alpha):g}% CI {equivalence.ci_low:+.3g} to "
+            f"{equivalence.ci_high:+.3g} minutes",
+        ),
     )
 
 
@@ -430,33 +534,56 @@ def _outcome_finding(
     instrument: Instrument | None,
     others: Sequence[Finding],
 ) -> Finding:
-    totals = [
-        [math.fsum(x.posttest) for x in data.of(c) if x.posttest is not None] for c in pair
-    ]
+    totals = [[math.fsum(x.posttest) for x in data.of(c) if x.posttest is not None] for c in pair]
     a, b = Summary.of(totals[0]), Summary.of(totals[1])
     values: dict[str, float | None] = {pair[0]: a.mean, pair[1]: b.mean}
     if not pooled_sd(a, b) or not a.sd:
-        return _finding("posttest_score", "outcome", "points", pair, Status.INCONCLUSIVE, values,
-                        b.mean - a.mean, "no spread in post-test scores: no effect size")
+        return _finding(
+            "posttest_score",
+            "outcome",
+            "points",
+            pair,
+            Status.INCONCLUSIVE,
+            values,
+            b.mean - a.mean,
+            "no spread in post-test scores: no effect size",
+        )
     g, delta, t = hedges_g(a, b), glass_delta(a, b), student_t(a, b)
     detail = (
-        f"t({t.df:g}) = {t.t:.2f}; Hedges' g = {g.value:+.2f} [95% CI {g.low:+.2f}, {g.high:+.2f}]; "
+        f"t({t.df:g}) = {t.t:.2f}; "
+        f"Hedges' g = {g.value:+.2f} [95% CI {g.low:+.2f}, {g.high:+.2f}]; "
         f"Glass's Δ = {delta.value:+.2f} [{delta.low:+.2f}, {delta.high:+.2f}] on {pair[0]}'s SD"
     )
     reason = (
-        f"difference {b.mean - a.mean:+.2f} points (n = {a.n} + {b.n}); {detail}; "
-        f"p = {t.p:.3f}"
+        f"difference {b.mean - a.mean:+.2f} points (n = {a.n} + {b.n}); {detail}; p = {t.p:.3f}"
     )
     if t.p < spec.alpha:
-        return _finding("posttest_score", "outcome", "points", pair, Status.INTENDED, values,
-                        b.mean - a.mean, reason + " — significant",
-                        test=StatTest("Student's t", t.p, detail))
+        return _finding(
+            "posttest_score",
+            "outcome",
+            "points",
+            pair,
+            Status.INTENDED,
+            values,
+            b.mean - a.mean,
+            reason + " — significant",
+            test=StatTest("Student's t", t.p, detail),
+        )
     evidence = _diagnosis(data, spec, pair, a.n, b.n, instrument, others)
     possible = sum(1 for e in evidence if e.kind == "possible_reason")
     reason += f" — not significant; {possible} possible reason{'s' if possible != 1 else ''}"
-    return _finding("posttest_score", "outcome", "points", pair, Status.INCONCLUSIVE, values,
-                    b.mean - a.mean, reason, test=StatTest("Student's t", t.p, detail),
-                    evidence=evidence)
+    return _finding(
+        "posttest_score",
+        "outcome",
+        "points",
+        pair,
+        Status.INCONCLUSIVE,
+        values,
+        b.mean - a.mean,
+        reason,
+        test=StatTest("Student's t", t.p, detail),
+        evidence=evidence,
+    )
 
 
 def _diagnosis(
@@ -471,27 +598,35 @@ def _diagnosis(
     """Each usual reason for a null result, marked possible or ruled out."""
     checks: list[tuple[bool, str]] = []
     power = achieved_power(spec.smallest_effect, n1, n2, spec.alpha)
-    checks.append((
-        power < TARGET_POWER,
-        f"power: {power:.2f} to detect d = {spec.smallest_effect:g} with {n1} + {n2} learners "
-        f"(target {TARGET_POWER:.2f})",
-    ))
+    checks.append(
+        (
+            power < TARGET_POWER,
+            f"power: {power:.2f} to detect d = {spec.smallest_effect:g} with {n1} + {n2} learners "
+            f"(target {TARGET_POWER:.2f})",
+        )
+    )
     if instrument is not None and instrument.reliability is not None:
-        checks.append((
-            instrument.reliability < RELIABILITY_MIN,
-            f"reliability: {instrument.coefficient} = {instrument.reliability:.2f} "
-            f"(minimum {RELIABILITY_MIN:.2f})",
-        ))
+        checks.append(
+            (
+                instrument.reliability < RELIABILITY_MIN,
+                f"reliability: {instrument.coefficient} = {instrument.reliability:.2f} "
+                f"(minimum {RELIABILITY_MIN:.2f})",
+            )
+        )
         end = max(instrument.ceiling, instrument.floor)
         which = "ceiling" if instrument.ceiling >= instrument.floor else "floor"
-        checks.append((
-            end > rel.CEILING_SHARE,
-            f"{which}: {end * 100:.1f}% of learners at the {'maximum' if which == 'ceiling' else 'minimum'} "
-            "(limit 15%)",
-        ))
+        checks.append(
+            (
+                rel.end_effect(end),
+                f"{which}: {end * 100:.1f}% of learners at the "
+                f"{'maximum' if which == 'ceiling' else 'minimum'} (limit 15%)",
+            )
+        )
 
     def of_pair(dimension: str) -> list[Finding]:
-        return [f for f in others if (f.reference, f.condition) == pair and f.dimension == dimension]
+        return [
+            f for f in others if (f.reference, f.condition) == pair and f.dimension == dimension
+        ]
 
     for dimension, label in (("time_on_task", "exposure"), ("attrition", "attrition")):
         for finding in of_pair(dimension):
@@ -499,25 +634,40 @@ def _diagnosis(
     unbalanced = [
         f.dimension.removeprefix("baseline:")
         for f in others
-        if (f.reference, f.condition) == pair and f.dimension.startswith("baseline:")
+        if (f.reference, f.condition) == pair
+        and f.dimension.startswith("baseline:")
         and f.status is not Status.MATCHED
     ]
-    checks.append((
-        bool(unbalanced),
-        "baseline: " + (f"not equivalent on {', '.join(unbalanced)} (adjust, or the estimate is biased)"
-                        if unbalanced else "equivalent on every measure"),
-    ))
+    checks.append(
+        (
+            bool(unbalanced),
+            "baseline: "
+            + (
+                f"not equivalent on {', '.join(unbalanced)} (adjust, or the estimate is biased)"
+                if unbalanced
+                else "equivalent on every measure"
+            ),
+        )
+    )
     confounds = [
         f.dimension
         for f in others
-        if (f.reference, f.condition) == pair and f.group not in DATA_GROUPS
-        and f.status is Status.DIFFERS and f.caused_by is None
+        if (f.reference, f.condition) == pair
+        and f.group not in DATA_GROUPS
+        and f.status is Status.DIFFERS
+        and f.caused_by is None
     ]
-    checks.append((
-        bool(confounds),
-        "materials: " + (f"the versions also differ in {', '.join(confounds)}" if confounds
-                         else "no difference beyond the manipulation"),
-    ))
+    checks.append(
+        (
+            bool(confounds),
+            "materials: "
+            + (
+                f"the versions also differ in {', '.join(confounds)}"
+                if confounds
+                else "no difference beyond the manipulation"
+            ),
+        )
+    )
     return tuple(
         Evidence(kind="possible_reason" if possible else "ruled_out", condition=pair[1], text=text)
         for possible, text in checks

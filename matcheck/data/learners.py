@@ -65,7 +65,9 @@ def _resolve(table: Table, patterns: Sequence[str], key: str) -> tuple[str, ...]
         matched = (
             [h for h in table.header if fnmatch.fnmatchcase(h, pattern)]
             if any(c in pattern for c in "*?[")
-            else [pattern] if pattern in table.header else []
+            else [pattern]
+            if pattern in table.header
+            else []
         )
         if not matched:
             raise DataError(
@@ -84,8 +86,9 @@ def _number(table: Table, row: int, column: str, text: str) -> float | None:
     except ValueError:
         value = math.nan
     if not math.isfinite(value):
-        raise DataError(f"row {row}, column {column!r}: {text!r} is not a number",
-                        path=str(table.path))
+        raise DataError(
+            f"row {row}, column {column!r}: {text!r} is not a number", path=str(table.path)
+        )
     return value
 
 
@@ -136,7 +139,8 @@ def read_learners(spec: DataSpec, conditions: Sequence[str]) -> LearnerData:
             place = f"{path.name} row {row}"
             if learner_id in seen:
                 raise DataError(
-                    f"row {row}, column {id_col!r}: id {learner_id!r} already at {seen[learner_id]}",
+                    f"row {row}, column {id_col!r}: id {learner_id!r} is already at "
+                    f"{seen[learner_id]}",
                     path=where,
                 )
             seen[learner_id] = place
@@ -224,8 +228,9 @@ def read_pilot(spec: DataSpec) -> ItemScores:
         table = read_table(path, spec.sheet)
         file_items = _resolve(table, spec.posttest, "posttest")
         if items and file_items != items:
-            raise DataError(f"post-test columns differ from those of {spec.pilot[0]}",
-                            path=str(path))
+            raise DataError(
+                f"post-test columns differ from those of {spec.pilot[0]}", path=str(path)
+            )
         items = file_items
         index = {name: i for i, name in enumerate(table.header)}
         for row, cells in table.rows:
@@ -233,13 +238,16 @@ def read_pilot(spec: DataSpec) -> ItemScores:
             for column in items:
                 value = _number(table, row, column, cells[index[column]])
                 if value is None:
-                    raise DataError(f"row {row}, column {column!r}: the score is empty",
-                                    path=str(path))
+                    raise DataError(
+                        f"row {row}, column {column!r}: the score is empty", path=str(path)
+                    )
                 scores.append(value)
             rows.append(tuple(scores))
     if len(rows) < MIN_LEARNERS:
-        raise DataError(f"the pilot has {len(rows)} learners; at least {MIN_LEARNERS} are needed",
-                        path=str(spec.pilot[0]))
+        raise DataError(
+            f"the pilot has {len(rows)} learners; at least {MIN_LEARNERS} are needed",
+            path=str(spec.pilot[0]),
+        )
     maxima = _maxima(rows, len(items))
     return ItemScores("pilot", items, tuple(rows), maxima, spec.posttest_max or math.fsum(maxima))
 

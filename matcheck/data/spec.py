@@ -71,17 +71,21 @@ def _columns(value: Any, key: str, shown: str) -> tuple[str, ...]:
         return (value,)
     if isinstance(value, list) and value and all(isinstance(v, str) and v for v in value):
         return tuple(value)
-    raise ConfigError(f"{key} must be a column name or a non-empty list of column names", path=shown)
+    raise ConfigError(
+        f"{key} must be a column name or a non-empty list of column names", path=shown
+    )
 
 
-def _number(data: Mapping[str, Any], key: str, shown: str, low: float, high: float,
-            default: float | None) -> float | None:
+def _number(
+    data: Mapping[str, Any], key: str, shown: str, low: float, high: float, default: float | None
+) -> float | None:
     value = data.get(key, default)
     if value is None:
         return None
     if isinstance(value, bool) or not isinstance(value, int | float) or not low < value <= high:
-        raise ConfigError(f"data.{key} must be a number above {low:g} and at most {high:g}",
-                          path=shown)
+        raise ConfigError(
+            f"data.{key} must be a number above {low:g} and at most {high:g}", path=shown
+        )
     return float(value)
 
 
@@ -97,8 +101,9 @@ def parse_data(path: Path, data: Any) -> DataSpec:
                 path=shown,
             )
     if "files" not in data and "pilot" not in data:
-        raise ConfigError("[data] needs files (the study's learners) or pilot (item scores)",
-                          path=shown)
+        raise ConfigError(
+            "[data] needs files (the study's learners) or pilot (item scores)", path=shown
+        )
     base = path.parent
     found: dict[str, tuple[Path, ...]] = {}
     for key in ("files", "pilot"):

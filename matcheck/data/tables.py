@@ -75,7 +75,9 @@ def _csv_rows(path: Path) -> list[list[str]]:
     except UnicodeDecodeError:
         raise DataError("the data file is not UTF-8 text", path=str(path)) from None
     sample = text[:4096]
-    delimiter = "\t" if path.suffix.lower() == ".tsv" or sample.count("\t") > sample.count(",") else ","
+    delimiter = (
+        "\t" if path.suffix.lower() == ".tsv" or sample.count("\t") > sample.count(",") else ","
+    )
     if delimiter == "," and sample.count(";") > sample.count(","):
         delimiter = ";"  # spreadsheets in decimal-comma locales
     try:

@@ -12,7 +12,8 @@ Sources (docs/references.md §4, §5):
 
 Standard errors for the intervals are the large-sample ones of Hedges & Olkin (1985,
 eq. 5.15 for g; Glass's Δ after Hedges 1981), FROM MEMORY (docs/references.md §4); the
-interval is g ± z·SE.
+interval is g ± t(n₁ + n₂ − 2)·SE, as R's effsize::cohen.d and pingouin's compute_esci do
+(checked against pingouin in tests/test_studystats.py).
 """
 
 from __future__ import annotations
@@ -92,10 +93,10 @@ def cohen_d(control: Summary, treatment: Summary) -> float:
     return (treatment.mean - control.mean) / pooled_sd(control, treatment)
 
 
-def _z(level: float) -> float:
-    from statistics import NormalDist
+def _critical(level: float, df: int) -> float:
+    from scipy.special import stdtrit
 
-    return NormalDist().inv_cdf(0.5 + level / 2)
+    return float(stdtrit(df, 0.5 + level / 2))
 
 
 def hedges_g(control: Summary, treatment: Summary, level: float = 0.95) -> Estimate:
@@ -103,7 +104,7 @@ def hedges_g(control: Summary, treatment: Summary, level: float = 0.95) -> Estim
     n1, n2 = control.n, treatment.n
     g = exact_j(n1 + n2 - 2) * cohen_d(control, treatment)
     se = math.sqrt((n1 + n2) / (n1 * n2) + g**2 / (2 * (n1 + n2)))
-    half = _z(level) * se
+    half = _critical(level, n1 + n2 - 2) * se
     return Estimate(g, g - half, g + half, level)
 
 
@@ -112,7 +113,7 @@ def glass_delta(control: Summary, treatment: Summary, level: float = 0.95) -> Es
     delta = (treatment.mean - control.mean) / control.sd
     n1, n2 = control.n, treatment.n
     se = math.sqrt((n1 + n2) / (n1 * n2) + delta**2 / (2 * (n1 - 1)))
-    half = _z(level) * se
+    half = _critical(level, n1 + n2 - 2) * se
     return Estimate(delta, delta - half, delta + half, level)
 
 

@@ -75,8 +75,9 @@ def tost(a: Summary, b: Summary, low: float, upp: float, alpha: float = 0.05) ->
     difference, se, df = _pooled(a, b)
     if not se:
         inside = low < difference < upp
-        return Tost(low, upp, 0.0 if inside else 1.0, 0.0 if inside else 1.0, difference,
-                    difference, alpha)
+        return Tost(
+            low, upp, 0.0 if inside else 1.0, 0.0 if inside else 1.0, difference, difference, alpha
+        )
     p_lower = 1.0 - _t_cdf(df, (difference - low) / se)
     p_upper = _t_cdf(df, (difference - upp) / se)
     half = _t_quantile(df, 1 - alpha) * se

@@ -94,6 +94,11 @@ def end_shares(totals: Sequence[float], minimum: float, maximum: float) -> tuple
     return floor, ceiling
 
 
+def end_effect(share: float) -> bool:
+    """A ceiling or floor effect: strictly more than 15 % at one end (Terwee et al. 2007)."""
+    return share > CEILING_SHARE
+
+
 def spearman_brown(reliability: float, factor: float) -> float:
     """Reliability of a test ``factor`` times as long."""
     return factor * reliability / (1 + (factor - 1) * reliability)
