@@ -24,7 +24,16 @@ from matcheck.data.learners import (
 )
 from matcheck.data.spec import DataSpec
 from matcheck.data.summary import Attrition, BaselineRow, GroupStats, Instrument, StudyData
-from matcheck.findings import Evidence, Finding, StatTest, Status, Tolerance
+from matcheck.findings import (
+    Basis,
+    Evidence,
+    EvidenceKind,
+    Finding,
+    Group,
+    StatTest,
+    Status,
+    Tolerance,
+)
 from matcheck.studystats import reliability as rel
 from matcheck.studystats.attrition import SOURCE as ATTRITION_SOURCE
 from matcheck.studystats.attrition import Assumption
@@ -43,7 +52,14 @@ from matcheck.studystats.effects import (
 from matcheck.studystats.equivalence import student_t, tost
 from matcheck.studystats.power import TARGET_POWER, achieved_power
 
-DATA_GROUPS = ("groups", "instrument", "outcome")
+DATA_GROUPS = (Group.GROUPS, Group.INSTRUMENT, Group.OUTCOME)
+# The reason code of each status (findings.Basis) for the data's verdicts.
+_BASIS = {
+    Status.MATCHED: Basis.WITHIN_TOLERANCE,
+    Status.DIFFERS: Basis.BEYOND_TOLERANCE,
+    Status.INCONCLUSIVE: Basis.TEST_INCONCLUSIVE,
+    Status.INTENDED: Basis.DECLARED,
+}
 WWC = "WWC: ≤0.05 SD equivalent, ≤0.25 with adjustment (docs/references.md §5)"
 # Common practice (Nunnally 1978, FROM MEMORY; docs/references.md §10).
 RELIABILITY_MIN = 0.70
@@ -73,7 +89,8 @@ def _finding(
 ) -> Finding:
     return Finding(
         dimension=dimension,
-        group=group,
+        group=Group(group),
+        basis=_BASIS[status],
         unit=unit,
         reference=pair[0],
         condition=pair[1],
@@ -166,7 +183,7 @@ def _instrument(scores: ItemScores, spec: DataSpec, lesson: Sequence[Finding]) -
 
 def _coverage(item: str, lesson: Sequence[Finding]) -> str:
     """What the lesson comparison found for this item: where it is not taught, if anywhere."""
-    mine = [f for f in lesson if f.group == "assessment" and f.dimension == f"item:{item}"]
+    mine = [f for f in lesson if f.group is Group.ASSESSMENT and f.item == item]
     if not mine:
         return "—"
     gaps = sorted(
@@ -175,7 +192,7 @@ def _coverage(item: str, lesson: Sequence[Finding]) -> str:
             for f in mine
             if f.status is Status.DIFFERS
             for e in f.evidence
-            if e.kind == "item_not_taught"
+            if e.kind is EvidenceKind.ITEM_NOT_TAUGHT
         }
     )
     if gaps:
@@ -267,7 +284,7 @@ def _instrument_findings(instrument: Instrument) -> list[Finding]:
     ]
     evidence = tuple(
         Evidence(
-            kind="weak_item",
+            kind=EvidenceKind.WEAK_ITEM,
             condition=instrument.source,
             text=f"{s.item}: difficulty {s.difficulty:.2f}, corrected item-total r "
             + (
@@ -570,7 +587,7 @@ def _outcome_finding(
             test=StatTest("Student's t", t.p, detail),
         )
     evidence = _diagnosis(data, spec, pair, a.n, b.n, instrument, others)
-    possible = sum(1 for e in evidence if e.kind == "possible_reason")
+    possible = sum(1 for e in evidence if e.kind is EvidenceKind.POSSIBLE_REASON)
     reason += f" — not significant; {possible} possible reason{'s' if possible != 1 else ''}"
     return _finding(
         "posttest_score",
@@ -669,7 +686,11 @@ def _diagnosis(
         )
     )
     return tuple(
-        Evidence(kind="possible_reason" if possible else "ruled_out", condition=pair[1], text=text)
+        Evidence(
+            kind=EvidenceKind.POSSIBLE_REASON if possible else EvidenceKind.RULED_OUT,
+            condition=pair[1],
+            text=text,
+        )
         for possible, text in checks
     )
 
