@@ -247,7 +247,8 @@ def check_against(
     )
     now = _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
     with tempfile.TemporaryDirectory(prefix="matcheck-rev-") as folder:
-        old_study = load_study(export_folder(study_path, revision, Path(folder)))
+        # The learners' data belong to now, not to the materials' past revision.
+        old_study = load_study(export_folder(study_path, revision, Path(folder)), with_data=False)
         old_settings = _study_settings(old_study)
         old_profiles, old_conditions = _measure_versions(
             _study_versions(old_study), old_study.reference, old_settings, limits

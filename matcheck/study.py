@@ -95,8 +95,12 @@ def _strings(path: Path, value: Any, where: str) -> tuple[str, ...]:
     return tuple(value)
 
 
-def load_study(path: Path) -> Study:
-    """Read and validate a study file; raises :class:`ConfigError` naming the key."""
+def load_study(path: Path, *, with_data: bool = True) -> Study:
+    """Read and validate a study file; raises :class:`ConfigError` naming the key.
+
+    ``with_data=False`` skips the ``[data]`` section: a past revision of the materials is
+    read without the learners' data, which are rarely under version control.
+    """
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.errors import UsageError
     from matcheck.intent import expand_manipulated
@@ -236,7 +240,7 @@ def load_study(path: Path) -> Study:
         raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
 
     comparison = _comparison(path, data.get("comparison", {}), threshold)
-    learners = parse_data(path, data["data"]) if "data" in data else None
+    learners = parse_data(path, data["data"]) if with_data and "data" in data else None
     return Study(
         path=path,
         title=title,

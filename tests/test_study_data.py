@@ -158,3 +158,36 @@ def test_demo_shows_adjustment_ceiling_and_diagnosis(capsys: pytest.CaptureFixtu
     assert outcome["status"] == "inconclusive" and kinds == {"possible_reason", "ruled_out"}
     text = json.dumps(report)
     assert "L001" not in text and "P01" not in text  # learners' ids never leave the data
+
+
+def test_against_a_revision_without_the_untracked_learners_data(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    """Learners' data are rarely under version control: --against reads the past materials
+    without them, and the data findings are today's."""
+    import shutil
+    import subprocess
+
+    if shutil.which("git") is None:
+        pytest.skip("git is not installed")
+    for name in CONDITIONS:
+        (tmp_path / f"{name}.md").write_text(
+            "# Tyres\n\nPump the tyre to the pressure printed on its wall.\n", encoding="utf-8"
+        )
+    (tmp_path / "learners.csv").write_text(HEADER + "\n".join(GOOD_ROWS) + "\n", "utf-8")
+    (tmp_path / ".gitignore").write_text("learners.csv\n", encoding="utf-8")
+    (tmp_path / "study.toml").write_text(
+        '[[conditions]]\nname = "a"\nfiles = "a.md"\n[[conditions]]\nname = "b"\n'
+        'files = "b.md"\n[data]\nfiles = "learners.csv"\ncondition = "group"\n'
+        'posttest = "Q*"\ncompleted = "done"\n',
+        encoding="utf-8",
+    )
+    git = ["git", "-c", "user.name=t", "-c", "user.email=t@example.org"]
+    subprocess.run([*git, "init", "-q"], cwd=tmp_path, check=True)
+    subprocess.run([*git, "add", "."], cwd=tmp_path, check=True)
+    subprocess.run([*git, "commit", "-qm", "study"], cwd=tmp_path, check=True)
+    status = main(["check", str(tmp_path / "study.toml"), "--against", "HEAD", "--format", "json"])
+    captured = capsys.readouterr()
+    assert status in (0, 1), captured.err
+    report = json.loads(captured.out)
+    assert any(f["group"] == "outcome" for f in report["findings"])
