@@ -191,3 +191,55 @@ def test_against_a_revision_without_the_untracked_learners_data(
     assert status in (0, 1), captured.err
     report = json.loads(captured.out)
     assert any(f["group"] == "outcome" for f in report["findings"])
+
+
+def _assess(tmp_path: Path, rows: list[str], **changes: object) -> dict[tuple[str, str], object]:
+    from matcheck.data.assess import assess_data
+
+    spec = _spec(tmp_path, rows, **changes)
+    findings, _ = assess_data(spec, CONDITIONS, "a", [("a", "b")], [])  # type: ignore[arg-type]
+    return {(f.dimension, f.condition): f for f in findings}
+
+
+def _learners(group: str, pre: list[int], post: list[list[int]], minutes: list[float]) -> list[str]:
+    return [
+        f"{group}{i},{group},{p},{','.join(map(str, q))},{m},yes"
+        for i, (p, q, m) in enumerate(zip(pre, post, minutes, strict=True))
+    ]
+
+
+def test_verdicts_follow_the_published_rules(tmp_path: Path) -> None:
+    # Pre-tests 1 SD apart (g far beyond 0.25), a large effect, equal times, no attrition.
+    post_a = [[0, 0, 1], [0, 1, 0], [1, 0, 0], [0, 0, 0], [1, 1, 0], [0, 1, 0]] * 2
+    post_b = [[1, 1, 1], [1, 1, 0], [1, 1, 1], [0, 1, 1], [1, 1, 1], [1, 0, 1]] * 2
+    rows = _learners("a", [2, 3, 4, 2, 3, 4] * 2, post_a, [10, 11, 12, 10, 11, 12] * 2)
+    rows += _learners("b", [3, 4, 5, 3, 4, 5] * 2, post_b, [10, 11, 12, 10, 11, 12] * 2)
+    found = _assess(tmp_path, rows, time_bound=2.0)
+    baseline = found["baseline:pretest", "b"]
+    assert baseline.status.value == "differs" and "not equivalent" in baseline.reason  # type: ignore[attr-defined]
+    assert found["attrition", "b"].status.value == "matched"  # type: ignore[attr-defined]
+    # Identical times: the TOST shows them equivalent within ±2 minutes (with the default
+    # ±0.25 SD, 12 learners per condition are too few to show it).
+    assert found["time_on_task", "b"].status.value == "matched"  # type: ignore[attr-defined]
+    # A significant effect of the manipulation is intended, with g and Glass's Δ.
+    outcome = found["posttest_score", "b"]
+    assert outcome.status.value == "intended"  # type: ignore[attr-defined]
+    assert "Hedges' g" in outcome.reason and "Glass's Δ" in outcome.reason  # type: ignore[attr-defined]
+
+
+def test_high_attrition_and_unequal_time_differ(tmp_path: Path) -> None:
+    post = [[0, 1, 1], [1, 0, 1], [1, 1, 0], [0, 0, 1], [1, 1, 1], [0, 1, 0]]
+    rows = _learners("a", [2, 3, 4, 2, 3, 4], post, [10, 11, 12, 10, 11, 12])
+    rows += _learners("b", [2, 3, 4, 2, 3, 4], post, [5, 6, 7, 5, 6, 7])
+    rows += [f"d{i},b,3,,,,,no" for i in range(4)]  # 4 of 10 in b left: 40 % vs 0 %
+    found = _assess(tmp_path, rows)
+    attrition = found["attrition", "b"]
+    assert attrition.status.value == "differs"  # type: ignore[attr-defined]
+    assert attrition.difference == pytest.approx(0.4)  # type: ignore[attr-defined]
+    assert found["time_on_task", "b"].status.value == "differs"  # type: ignore[attr-defined]
+    # The same post-test in both: a null result, with exposure and attrition as reasons.
+    outcome = found["posttest_score", "b"]
+    possible = [e.text for e in outcome.evidence if e.kind == "possible_reason"]  # type: ignore[attr-defined]
+    assert any(text.startswith("exposure") for text in possible)
+    assert any(text.startswith("attrition") for text in possible)
+    assert any(text.startswith("power") for text in possible)
