@@ -1,7 +1,7 @@
 """The statistics of the learners' data against published values and a second library.
 
 Every expected number comes from outside the project: docs/references.md names the source of
-each (§4 effect sizes, §5 WWC, §5a attrition boundary, §6 power, §7 TOST, §10 reliability).
+each (§4 effect sizes, §5 WWC, §18 attrition boundary, §6 power, §7 TOST, §10 reliability).
 pingouin and statsmodels are reference libraries (test-only for pingouin).
 """
 
@@ -214,12 +214,12 @@ def test_spearman_brown_by_hand() -> None:
     assert rel.items_needed(-0.1, 10, 0.8) is None
 
 
-# -- attrition (§5a) and power (§6) -------------------------------------------------------
+# -- attrition (§18) and power (§6) -------------------------------------------------------
 
 
 def test_attrition_boundary_table_and_documented_examples() -> None:
     # Source: WWC Standards Handbook v4.0 Table II.1 as transcribed by a reviewers' R package
-    # (SECONDARY; docs/references.md §5a), with that package's documented examples.
+    # (SECONDARY; docs/references.md §18), with that package's documented examples.
     assert boundary(0.0, Assumption.CAUTIOUS) == pytest.approx(0.057)
     assert boundary(0.0, Assumption.OPTIMISTIC) == pytest.approx(0.100)
     assert boundary(0.10, Assumption.CAUTIOUS) == pytest.approx(0.063)

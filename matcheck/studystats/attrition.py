@@ -9,7 +9,7 @@ attrition relates to the outcome.
 The boundary table (differential attrition in percentage points for overall attrition 0 %
 to 57 %) is WWC Standards Handbook v4.0, Table II.1. SECONDARY: transcribed from the table by
 a third-party reviewers' R package, not read in the handbook itself; the first rows (5.7 and
-10.0 points at 0 %) agree with what we recall of v4.1 and v5.0. See docs/references.md §5a.
+10.0 points at 0 %) agree with what we recall of v4.1 and v5.0. See docs/references.md §18.
 Between whole percentages we interpolate linearly (our choice: the table is a sampled curve);
 beyond 57 % overall attrition, the table has no row and attrition is high.
 """
@@ -19,7 +19,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from enum import StrEnum
 
-SOURCE = "WWC Standards Handbook v4.0, Table II.1 (secondary transcription; docs/references.md §5a)"
+SOURCE = "WWC Standards Handbook v4.0, Table II.1 (secondary transcription; docs/references.md §18)"
 
 # Index = overall attrition in whole percent (0 … 57); value = differential boundary, points.
 CAUTIOUS = (
