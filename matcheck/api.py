@@ -191,6 +191,18 @@ def _study_report(
             tolerances=tolerances,
         )
         findings = (*findings, *extra)
+    data = None
+    if study.data is not None:
+        from matcheck.data.assess import assess_data
+
+        extra, data = assess_data(
+            study.data,
+            [c.name for c in study.conditions],
+            study.reference,
+            [(p.reference, p.condition) for p in pairs],
+            findings,
+        )
+        findings = (*findings, *extra)
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
     return Report(
         conditions=tuple(conditions),
@@ -203,6 +215,7 @@ def _study_report(
         title=study.title,
         warnings=warnings,
         settings=study.comparison,
+        data=data,
     )
 
 
@@ -235,7 +248,8 @@ def check_against(
     )
     now = _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
     with tempfile.TemporaryDirectory(prefix="matcheck-rev-") as folder:
-        old_study = load_study(export_folder(study_path, revision, Path(folder)))
+        # The learners' data belong to now, not to the materials' past revision.
+        old_study = load_study(export_folder(study_path, revision, Path(folder)), with_data=False)
         old_settings = _study_settings(old_study)
         old_profiles, old_conditions = _measure_versions(
             _study_versions(old_study), old_study.reference, old_settings, limits

@@ -61,3 +61,7 @@ class NoText(InputError):
 
 class LimitExceeded(InputError):
     """The file is beyond one of the documented resource limits."""
+
+
+class DataError(MatcheckError):
+    """A learners' data file that cannot be read as the study file describes it."""

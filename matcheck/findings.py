@@ -11,10 +11,14 @@ from __future__ import annotations
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from enum import StrEnum
+from typing import TYPE_CHECKING
 
 from matcheck.errors import EXIT_DIFFERS, EXIT_INPUT, EXIT_MATCHED
 from matcheck.model import Location
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
+
+if TYPE_CHECKING:
+    from matcheck.data.summary import StudyData
 
 SCHEMA_VERSION = "2.0"
 
@@ -43,6 +47,11 @@ class Group(StrEnum):
     STRUCTURE = "structure"
     SIGNALING = "signaling"
     ASSESSMENT = "assessment"
+    # The learners' data (matcheck/data): baseline, attrition and exposure; the post-test's
+    # quality; the effect found.
+    GROUPS = "groups"
+    INSTRUMENT = "instrument"
+    OUTCOME = "outcome"
 
 
 class Basis(StrEnum):
@@ -93,6 +102,9 @@ class EvidenceKind(StrEnum):
     ITEM_TAUGHT = "item_taught", "taught in {here}"
     ITEM_NOT_TAUGHT = "item_not_taught", "not taught in {here}"
     ITEM_COVERED_LESS = "item_covered_less", "covered less in {here}"
+    POSSIBLE_REASON = "possible_reason", "possible reason for the null result"
+    RULED_OUT = "ruled_out", "ruled out"
+    WEAK_ITEM = "weak_item", "weak item ({here})"
 
 
 @dataclass(frozen=True, slots=True)
@@ -261,6 +273,8 @@ class Report:
     regressions: tuple[Regression, ...] = ()
     # The thresholds the comparison used, recorded so that the report can be reproduced.
     settings: ComparisonSettings = DEFAULT_COMPARISON
+    # Aggregates of the learners' data ([data] in the study file), for the reports.
+    data: StudyData | None = None
 
     def pairs(self) -> tuple[Pairing, ...]:
         """The comparisons in order (every condition against the reference by default)."""

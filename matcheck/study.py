@@ -14,11 +14,12 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+from matcheck.data.spec import DataSpec, parse_data
 from matcheck.errors import ConfigError
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
 _LESSON_SUFFIXES = {".docx", ".pdf", ".md", ".markdown", ".txt", ".doc", ".odt", ".rtf"}
-TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison"}
+TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison", "data"}
 STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
 FACTOR_KEYS = {"levels", "manipulates", "description"}
 CONDITION_KEYS = {"name", "files", "levels", "description"}
@@ -65,6 +66,8 @@ class Study:
     posttest: tuple[Path, ...]
     coverage_threshold: float | None
     comparison: ComparisonSettings = DEFAULT_COMPARISON
+    # The learners' data ([data], docs/study-data.md); None without it.
+    data: DataSpec | None = None
 
     def condition(self, name: str) -> StudyCondition:
         return next(c for c in self.conditions if c.name == name)
@@ -93,8 +96,12 @@ def _strings(path: Path, value: Any, where: str) -> tuple[str, ...]:
     return tuple(value)
 
 
-def load_study(path: Path) -> Study:
-    """Read and validate a study file; raises :class:`ConfigError` naming the key."""
+def load_study(path: Path, *, with_data: bool = True) -> Study:
+    """Read and validate a study file; raises :class:`ConfigError` naming the key.
+
+    ``with_data=False`` skips the ``[data]`` section: a past revision of the materials is
+    read without the learners' data, which are rarely under version control.
+    """
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.errors import UsageError
     from matcheck.intent import expand_manipulated
@@ -254,6 +261,7 @@ def load_study(path: Path) -> Study:
         raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
 
     comparison = _comparison(path, data.get("comparison", {}), threshold)
+    learners = parse_data(path, data["data"]) if with_data and "data" in data else None
     return Study(
         path=path,
         title=title,
@@ -265,6 +273,7 @@ def load_study(path: Path) -> Study:
         posttest=post_files,
         coverage_threshold=float(threshold) if threshold is not None else None,
         comparison=comparison,
+        data=learners,
     )
 
 

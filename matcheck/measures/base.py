@@ -26,6 +26,7 @@ UNIT_DECIMALS = {
     "tokens": 1,
     "megapixels": 2,
     "cm²": 1,
+    "SD": 2,  # standardised differences of the learners' data
 }
 
 

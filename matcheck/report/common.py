@@ -53,7 +53,7 @@ def format_difference(finding: Finding, *, short: bool = False) -> str:
         not short
         and relative is not None
         and finding.difference
-        and finding.unit not in ("share", "grade", "points", "score")
+        and finding.unit not in ("share", "grade", "points", "score", "SD")
     ):
         return f"{sign}{text} ({relative * 100:+.0f}%)"
     return f"{sign}{text}"

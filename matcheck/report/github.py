@@ -79,6 +79,8 @@ def render_github(report: Report, options: RenderOptions | None = None) -> str:
             f"{finding.status.value} ({format_difference(finding)}; tolerance "
             f"{format_tolerance(finding)})"
         )
+        if finding.reference == finding.condition:  # the post-test itself, no pair
+            message = f"post-test ({finding.condition}): {finding.dimension}: {finding.reason}"
         if evidence is not None:
             pair = (finding.reference, finding.condition)
             message += f"\n{describe_evidence(evidence, pair)}"

@@ -126,7 +126,15 @@ def report_dict(report: Report) -> dict[str, Any]:
         "changes": [finding_dict(f) for f in sorted_findings(report.changes)],
         "regressions": [describe_regression(r) for r in report.regressions],
         "notes": list(report.notes),
+        **({"study_data": _study_data(report)} if report.data is not None else {}),
     }
+
+
+def _study_data(report: Report) -> dict[str, Any]:
+    from matcheck.report.study_data import data_dict
+
+    assert report.data is not None
+    return data_dict(report.data)
 
 
 def render_json(report: Report, options: RenderOptions | None = None) -> str:

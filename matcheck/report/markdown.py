@@ -91,6 +91,10 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
             pair = (finding.reference, finding.condition)
             lines += [f"- {_cell(describe_evidence(item, pair))}" for item in finding.evidence]
             lines += ["", "</details>", ""]
+    if report.data is not None:
+        from matcheck.report.study_data import render_markdown as data_markdown
+
+        lines += data_markdown(report)
     if report.revision:
         lines += [f"### Since `{report.revision}`", ""]
         lines += [f"- {_cell(describe_regression(r))}" for r in report.regressions] or [

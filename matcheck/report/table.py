@@ -117,6 +117,10 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
                     extra = len(finding.evidence) - MAX_EVIDENCE_LINES
                     console.print(f"  … and {extra} more (see --format json)", highlight=False)
         console.print()
+    if report.data is not None:
+        from matcheck.report.study_data import render_text
+
+        render_text(report, console)
     for warning in report.warnings:
         console.print(f"[yellow]warning[/yellow] {warning}", highlight=False)
     for condition in report.conditions:

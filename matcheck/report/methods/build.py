@@ -59,7 +59,9 @@ def methods_table(
     rows.sort(key=lambda r: GROUP_ORDER.index(r.group))  # stable: catalogue order inside
     title = f"{TITLE}: {report.title}" if report.title else TITLE
     notes = table_notes(rows, report.words_per_minute, _untaught(items, threshold or 1.0))
-    return MethodsTable(number, title, columns, tuple(rows), notes, report.words_per_minute)
+    return MethodsTable(
+        number, title, columns, tuple(rows), notes, report.words_per_minute, report.data
+    )
 
 
 def _verdict(findings: Sequence[Finding]) -> str:

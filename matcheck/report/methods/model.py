@@ -7,9 +7,13 @@ the prose paragraph always show the same numbers.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from matcheck.findings import Status
 from matcheck.settings import DEFAULT_WPM
+
+if TYPE_CHECKING:
+    from matcheck.data.summary import StudyData
 
 TITLE = "Equivalence of the Lesson Versions"
 NOT_PROOF = "Matched measures do not prove equivalence; see the full report."
@@ -96,6 +100,8 @@ class MethodsTable:
     rows: tuple[MethodsRow, ...]
     notes: tuple[str, ...]
     words_per_minute: float = DEFAULT_WPM
+    # The learners' data, for a baseline-equivalence table and a sentence (study_data.py).
+    data: StudyData | None = None
 
     @property
     def note(self) -> str:

@@ -51,4 +51,8 @@ def render_text(table: MethodsTable, options: RenderOptions | None = None) -> st
             + (" (Brysbaert, 2019)." if table.words_per_minute == DEFAULT_WPM else ".")
         )
     sentences.append(f"Table {table.number} gives every measure with its tolerance.")
-    return " ".join(sentences) + "\n"
+    if table.data is not None:
+        from matcheck.report.study_data import methods_sentence
+
+        sentences.append(methods_sentence(table.data))
+    return " ".join(s for s in sentences if s) + "\n"
