@@ -238,6 +238,53 @@ def table(
     return EXIT_MATCHED
 
 
+class PowerFormat(StrEnum):
+    text = "text"
+    json = "json"
+
+
+@app.command()
+def power(
+    effect: Annotated[float | None, typer.Option("--effect", help="Effect size (d, or f).")] = None,
+    n: Annotated[int | None, typer.Option("--n", help="Learners per condition.")] = None,
+    power_: Annotated[float | None, typer.Option("--power", help="Target power.")] = None,
+    alpha: Annotated[float, typer.Option("--alpha", help="Significance level.")] = 0.05,
+    one_sided: Annotated[bool, typer.Option("--one-sided", help="A one-sided test.")] = False,
+    design: Annotated[
+        str | None, typer.Option("--design", help="two-group, k-group or factorial.")
+    ] = None,
+    groups: Annotated[int | None, typer.Option("--groups", help="k for k-group.")] = None,
+    levels: Annotated[str | None, typer.Option("--levels", help="Factorial, e.g. 2x2.")] = None,
+    term: Annotated[str | None, typer.Option("--term", help="A, B, AxB...; default all.")] = None,
+    effect_measure: Annotated[
+        str | None, typer.Option("--effect-measure", help="d or f (default d for two groups).")
+    ] = None,
+    ratio: Annotated[float | None, typer.Option("--ratio", help="n2/n1, two groups.")] = None,
+    pretest_r: Annotated[
+        float | None, typer.Option("--pretest-r", help="Pre-test correlation (covariate).")
+    ] = None,
+    icc: Annotated[
+        float | None, typer.Option("--icc", help="ICC when classes are assigned.")
+    ] = None,
+    class_size: Annotated[
+        int | None, typer.Option("--class-size", help="Learners per class.")
+    ] = None,
+    classes: Annotated[int | None, typer.Option("--classes", help="Classes per condition.")] = None,
+    format: Annotated[PowerFormat, typer.Option("--format", "-f")] = PowerFormat.text,
+) -> int:
+    """Sample size, power or smallest detectable effect (give two of --n, --effect, --power)."""
+    from matcheck.power.command import Request, run
+    from matcheck.power.render import render_json, render_text
+
+    request = Request(
+        design, groups, levels, term, effect, effect_measure, n, classes, power_, alpha,
+        one_sided, ratio, pretest_r, icc, class_size,
+    )  # fmt: skip
+    results = run(request)
+    emit((render_json if format is PowerFormat.json else render_text)(results), None, [])
+    return EXIT_MATCHED
+
+
 @app.command()
 def measures() -> int:
     """List every measure with its id, group, unit and default tolerance."""
