@@ -270,6 +270,10 @@ def power(
         int | None, typer.Option("--class-size", help="Learners per class.")
     ] = None,
     classes: Annotated[int | None, typer.Option("--classes", help="Classes per condition.")] = None,
+    difference: Annotated[
+        float | None, typer.Option("--difference", help="Mean difference, in points (with --sd).")
+    ] = None,
+    sd: Annotated[float | None, typer.Option("--sd", help="Outcome SD, in points.")] = None,
     format: Annotated[PowerFormat, typer.Option("--format", "-f")] = PowerFormat.text,
 ) -> int:
     """Sample size, power or smallest detectable effect (give two of --n, --effect, --power)."""
@@ -278,7 +282,7 @@ def power(
 
     request = Request(
         design, groups, levels, term, effect, effect_measure, n, classes, power_, alpha,
-        one_sided, ratio, pretest_r, icc, class_size,
+        one_sided, ratio, pretest_r, icc, class_size, difference, sd,
     )  # fmt: skip
     results = run(request)
     emit((render_json if format is PowerFormat.json else render_text)(results), None, [])

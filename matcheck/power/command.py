@@ -9,7 +9,14 @@ import re
 from dataclasses import dataclass
 
 from matcheck.errors import UsageError
-from matcheck.power.designs import Design, Kind, Measure, Term, factor_letters
+from matcheck.power.designs import (
+    Design,
+    Kind,
+    Measure,
+    Term,
+    d_from_difference,
+    factor_letters,
+)
 from matcheck.power.plan import Result, analyse
 from matcheck.power.rules import problem
 from matcheck.power.solve import Effect, Unreachable
@@ -34,6 +41,8 @@ class Request:
     pretest_r: float | None = None
     icc: float | None = None
     class_size: int | None = None
+    difference: float | None = None
+    sd: float | None = None
 
 
 def _check(name: str, value: object, option: str) -> None:
@@ -121,6 +130,7 @@ def run(request: Request) -> list[Result]:
     """Every requested term's answer to the question the options ask."""
     design = build_design(request)
     terms = _terms(design, request)
+    request = _from_difference(request)
     _check("effect", request.effect, "--effect")
     _check("power", request.power, "--power")
     _check("n", request.n, "--n")
@@ -152,6 +162,24 @@ def run(request: Request) -> list[Result]:
         except Unreachable as reason:
             raise UsageError(f"{term.name}: {reason}") from None
     return results
+
+
+def _from_difference(request: Request) -> Request:
+    """``--difference`` and ``--sd`` state d in the test's points: d = difference / SD."""
+    from dataclasses import replace
+
+    if request.difference is None and request.sd is None:
+        return request
+    if request.difference is None or request.sd is None:
+        raise UsageError("--difference and --sd go together (d = difference / SD)")
+    if request.effect is not None:
+        raise UsageError("give --effect or --difference with --sd, not both")
+    if request.effect_measure not in (None, Measure.D.value):
+        raise UsageError("--difference with --sd states d: leave out --effect-measure f")
+    _check("sd", request.sd, "--sd")
+    _check("effect", request.difference, "--difference")
+    return replace(request, effect=d_from_difference(request.difference, request.sd),
+                   effect_measure=Measure.D.value)  # fmt: skip
 
 
 def _measure(design: Design, text: str | None) -> Measure:

@@ -114,3 +114,8 @@ class Design:
 
 def factor_letters(count: int) -> tuple[str, ...]:
     return tuple("ABCDEFGH"[:count])
+
+
+def d_from_difference(difference: float, sd: float) -> float:
+    """Cohen's d of a difference between two means in the outcome's points: difference / SD."""
+    return difference / sd

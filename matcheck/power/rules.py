@@ -11,6 +11,7 @@ from collections.abc import Callable
 # name → (accepts, what it must be)
 RULES: dict[str, tuple[Callable[[float], bool], str]] = {
     "effect": (lambda v: v > 0, "an effect size above 0"),
+    "sd": (lambda v: v > 0, "a standard deviation above 0"),
     "power": (lambda v: 0 < v < 1, "a power between 0 and 1 (both excluded)"),
     "alpha": (lambda v: 0 < v <= 0.5, "an alpha in (0, 0.5]"),
     "pretest_r": (lambda v: 0 <= v < 1, "a correlation in [0, 1)"),

@@ -138,10 +138,14 @@ def detectable(design: Design, term: Term, units: float, target: float) -> float
     """The smallest effect (d for two groups, else f) with ``target`` power at ``units``."""
     from scipy.optimize import brentq
 
-    low, high = EFFECT_RANGE
-    if power(design, term, high, units) < target:
-        raise Unreachable("no effect size reaches that power with this sample")
-    return float(brentq(lambda f: power(design, term, f, units) - target, low, high, xtol=1e-10))
+    low, limit = EFFECT_RANGE
+    # Bracket from below: near power 1 the noncentral distributions lose precision (NaN).
+    high = 0.1
+    while power(design, term, high, units) < target:
+        low, high = high, high * 2
+        if high > limit:
+            raise Unreachable("no effect size reaches that power with this sample")
+    return float(brentq(lambda e: power(design, term, e, units) - target, low, high, xtol=1e-10))
 
 
 @dataclass(frozen=True, slots=True)
