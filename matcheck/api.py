@@ -190,6 +190,10 @@ def _study_report(
             answer_factor=study.comparison.answer_factor,
         )
         findings = (*findings, *extra)
+    if study.sample is not None:
+        from matcheck.power.study_plan import design_findings
+
+        findings = (*findings, *design_findings(study, study.sample))
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
     return Report(
         conditions=tuple(conditions),

@@ -12,12 +12,15 @@ import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from matcheck.errors import ConfigError
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
-TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison"}
+if TYPE_CHECKING:
+    from matcheck.power.study_plan import SamplePlan
+
+TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison", "sample"}
 STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
 FACTOR_KEYS = {"levels", "manipulates", "description"}
 CONDITION_KEYS = {"name", "files", "levels", "description"}
@@ -64,6 +67,8 @@ class Study:
     posttest: tuple[Path, ...]
     coverage_threshold: float | None
     comparison: ComparisonSettings = DEFAULT_COMPARISON
+    # The planned sample ([sample], docs/power.md); None when the file has none.
+    sample: SamplePlan | None = None
 
     def condition(self, name: str) -> StudyCondition:
         return next(c for c in self.conditions if c.name == name)
@@ -233,7 +238,7 @@ def load_study(path: Path) -> Study:
         raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
 
     comparison = _comparison(path, data.get("comparison", {}), threshold)
-    return Study(
+    study_ = Study(
         path=path,
         title=title,
         reference=reference,
@@ -245,6 +250,15 @@ def load_study(path: Path) -> Study:
         coverage_threshold=float(threshold) if threshold is not None else None,
         comparison=comparison,
     )
+    if "sample" in data:
+        from dataclasses import replace
+
+        from matcheck.power.study_plan import parse_sample, study_design
+
+        plan = parse_sample(data["sample"], shown)
+        study_design(study_, plan)  # refuses a design power cannot be computed for
+        study_ = replace(study_, sample=plan)
+    return study_
 
 
 def _comparison(path: Path, table: object, coverage: float | None) -> ComparisonSettings:

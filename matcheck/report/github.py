@@ -79,6 +79,8 @@ def render_github(report: Report, options: RenderOptions | None = None) -> str:
             f"{finding.status.value} ({format_difference(finding)}; tolerance "
             f"{format_tolerance(finding)})"
         )
+        if finding.group == "design":  # a contrast of the study, not a pair of versions
+            message = f"{finding.dimension}: {finding.reason}"
         if evidence is not None:
             pair = (finding.reference, finding.condition)
             message += f"\n{describe_evidence(evidence, pair)}"
