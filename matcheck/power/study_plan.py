@@ -253,6 +253,11 @@ def _finding(design: Design, term: Term, result: Assessment, measure: Measure) -
         f"needed_{unit}": float(needed or 0),
         "smallest_effect": wanted,
         "detectable_effect": smallest,
+        "alpha": design.alpha,
+        "one_sided": float(design.one_sided),
+        "pretest_correlation": design.pretest_r,
+        "icc": design.icc,
+        "class_size": None if design.class_size is None else float(design.class_size),
     }
     return Finding(
         dimension=f"power:{term.name}",

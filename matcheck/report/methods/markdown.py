@@ -25,4 +25,5 @@ def render_markdown(table: MethodsTable, options: RenderOptions | None = None) -
         cells = (row.group_label, row.label, *row.values, row.difference, row.verdict)
         lines.append("| " + " | ".join(_md(cell) for cell in cells) + " |")
     lines += ["", f"*Note.* {_md(table.note)}"]
+    lines += ["", table.sample_size] if table.sample_size else []
     return "\n".join(lines) + "\n"

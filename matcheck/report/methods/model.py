@@ -96,6 +96,8 @@ class MethodsTable:
     rows: tuple[MethodsRow, ...]
     notes: tuple[str, ...]
     words_per_minute: float = DEFAULT_WPM
+    # The power of the planned sample, for the methods section ("" without [sample]).
+    sample_size: str = ""
 
     @property
     def note(self) -> str:

@@ -51,4 +51,5 @@ def render_text(table: MethodsTable, options: RenderOptions | None = None) -> st
             + (" (Brysbaert, 2019)." if table.words_per_minute == DEFAULT_WPM else ".")
         )
     sentences.append(f"Table {table.number} gives every measure with its tolerance.")
-    return " ".join(sentences) + "\n"
+    sample = f"\n\n{table.sample_size}" if table.sample_size else ""
+    return " ".join(sentences) + sample + "\n"
