@@ -139,9 +139,8 @@ def test_every_format_shows_the_design(
     assert "Design: power for each contrast" in outputs["markdown"]
     assert "needs 64 learners per condition" in outputs["markdown"]
     # One annotation naming the contrast (not a pair of versions), with its explanation.
-    assert "::error title=matcheck%3A design::power:conditions: power 0.60 < 0.8" in (
-        outputs["github"]
-    )
+    annotation = "::error title=matcheck%3A design::power:conditions: power 0.60 < 0.8"
+    assert annotation in outputs["github"]
     assert "Design: power for each contrast" in outputs["table"]
 
 
