@@ -10,7 +10,9 @@
 - Whole classes assigned (cluster randomisation): the variance of a condition mean grows by
   the design effect ``1 + (m − 1)·ICC`` for m learners per class (Donner & Klar 2000;
   docs/references.md §6c), so n learners carry the information of ``n / deff``
-  independent ones.
+  independent ones. Power is computed for the analysis of class means, whose error degrees
+  of freedom count classes, not learners (:func:`class_mean_scale`);
+  :func:`classes_needed` is the plain design-effect count, used to check it.
 """
 
 from __future__ import annotations
@@ -31,6 +33,17 @@ def ancova_n(n_unadjusted: float, pretest_r: float) -> float:
 def design_effect(class_size: int, icc: float) -> float:
     """``1 + (m − 1)·ICC``: the variance inflation of assigning classes of m learners."""
     return 1.0 + (class_size - 1) * icc
+
+
+def class_mean_scale(class_size: int | None, icc: float | None) -> float:
+    """``√(m / deff)``: a difference in learner SDs, expressed in SDs of class means.
+
+    A class mean of m learners has variance ``σ²·(ICC + (1 − ICC)/m) = σ²·deff/m``; with
+    no classes assigned the scale is 1.
+    """
+    if class_size is None:
+        return 1.0
+    return math.sqrt(class_size / design_effect(class_size, icc or 0.0))
 
 
 def classes_needed(learners: float, class_size: int, icc: float) -> int:

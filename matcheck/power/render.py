@@ -81,9 +81,9 @@ def render_text(results: Sequence[Result]) -> str:
         if result.ancova_approximation is not None
     ]
     for result, approx in approximations:
+        which = f" for {result.term.name}" if result.design.kind is Kind.FACTORIAL else ""
         lines.append(
-            f"  (Borm et al. 2007 approximation for {result.term.name}: "
-            f"{approx:.1f} learners per condition)"
+            f"  (Borm et al. 2007 approximation{which}: {approx:.1f} learners per condition)"
         )
     lines.append("Power analysis rests on the assumed effect size: state where it comes from.")
     return "\n".join(lines) + "\n"

@@ -5,8 +5,10 @@ unequal allocation) and ``FTestAnovaPower`` (k groups), and scipy's noncentral F
 distributions where statsmodels has no class for the case (a term of a factorial, with
 numerator df of the term and denominator df ``N − cells``; a covariate, which spends one more
 error df). The two adjustments of :mod:`matcheck.power.adjust` scale what goes in: the
-covariate divides the noncentrality by ``1 − ρ²``; classes divide the learners by the design
-effect.
+covariate divides the noncentrality by ``1 − ρ²``; when classes are assigned, the analysis is
+of class means, with classes as the units (so the error df count classes), and the effect in
+SDs of a class mean is ``d·√(m / deff)``, which is the design effect applied to the
+noncentrality.
 
 The sample is counted in *units* per condition: learners, or classes when classes are
 assigned. The n needed is the smallest whole number of units with at least the target power
@@ -19,7 +21,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from matcheck.power.adjust import residual_share
+from matcheck.power.adjust import class_mean_scale, residual_share
 from matcheck.power.designs import Design, Kind, Measure, Term
 
 # The largest sample searched (units per condition): beyond it a study is not plannable.
@@ -34,12 +36,10 @@ class Unreachable(ValueError):
 
 def units_minimum(design: Design) -> int:
     """The fewest units per condition that leave at least one error degree of freedom."""
-    if design.clustered:
-        return 2  # two classes per condition: a variance between classes exists
     covariate = 0 if design.pretest_r is None else 1
-    # Learners per condition: at least 2, and N − cells − covariate ≥ 1.
+    # At least 2 per condition, and N − cells − covariate ≥ 1 (N counts units).
     smallest = 2
-    while _learners_total(design, smallest) - design.cells - covariate < 1:
+    while _units_total(design, smallest) - design.cells - covariate < 1:
         smallest += 1
     return smallest
 
@@ -49,7 +49,7 @@ def learners(design: Design, units: float) -> float:
     return units * design.class_size if design.class_size else units
 
 
-def _learners_total(design: Design, first: float) -> float:
+def _units_total(design: Design, first: float) -> float:
     if design.kind is Kind.TWO_GROUP:
         return first * (1.0 + design.ratio)
     return first * design.cells
@@ -60,7 +60,10 @@ def power(design: Design, term: Term, effect: float, units: float) -> float:
 
     ``units`` per condition: learners, or classes when classes are assigned.
     """
-    n1 = learners(design, units) / design.design_effect
+    # The analysis counts units (learners, or class means); an effect in learner SDs is
+    # √(m / deff) times larger in SDs of class means (adjust.class_mean_scale).
+    n1 = float(units)
+    effect *= class_mean_scale(design.class_size, design.icc)
     share = residual_share(design.pretest_r)
     alternative = "larger" if design.one_sided else "two-sided"
     if design.kind is Kind.TWO_GROUP:
