@@ -242,3 +242,26 @@ def test_assess_reports_power_need_and_sensitivity() -> None:
     )
     assert abs(planned.needs.n_per_group - 64) <= 1  # Cohen's table, docs/references.md §6
     assert planned.detects.effect.d is not None and planned.detects.effect.d > 0.5
+
+
+@pytest.mark.parametrize("n", [12, 40])
+def test_one_sided_f_path_is_the_one_sided_t_test(n: int) -> None:
+    # A one-df term tested one-sided is a t-test in one tail (statsmodels, 'larger').
+    design = Design(Kind.FACTORIAL, (2,), ("A",), one_sided=True)
+    expected = TTestIndPower().power(effect_size=0.5, nobs1=n, alpha=0.05, alternative="larger")
+    assert solve.power(design, design.terms()[0], 0.25, n) == pytest.approx(expected, abs=1e-9)
+
+
+def test_unequal_groups_f_and_d() -> None:
+    # Cohen's f of two groups with shares p and 1 − p is d·√(p(1 − p)); equal groups: d/2.
+    design = replace(TWO, ratio=3.0)
+    effect = Effect.of(design, design.terms()[0], 0.5, Measure.D)
+    assert effect.f == pytest.approx(0.5 * math.sqrt(0.25 * 0.75))
+    back = Effect.of(design, design.terms()[0], effect.f, Measure.F)
+    assert back.d == pytest.approx(0.5)
+
+
+def test_an_effect_too_small_to_plan_for_is_refused() -> None:
+    term = TWO.terms()[0]
+    with pytest.raises(solve.Unreachable, match="per condition would be needed"):
+        solve.units_needed(TWO, term, 1e-4, 0.99)

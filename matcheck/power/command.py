@@ -160,7 +160,8 @@ def run(request: Request) -> list[Result]:
         try:
             results.append(analyse(design, term, units=units, effect=effect, target=request.power))
         except Unreachable as reason:
-            raise UsageError(f"{term.name}: {reason}") from None
+            where = f"{term.name}: " if design.kind is Kind.FACTORIAL else ""
+            raise UsageError(f"{where}{reason}") from None
     return results
 
 
