@@ -13,6 +13,8 @@ import math
 from dataclasses import replace
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from scipy.stats import norm
 from statsmodels.stats.power import FTestAnovaPower, TTestIndPower
 
@@ -265,3 +267,23 @@ def test_an_effect_too_small_to_plan_for_is_refused() -> None:
     term = TWO.terms()[0]
     with pytest.raises(solve.Unreachable, match="per condition would be needed"):
         solve.units_needed(TWO, term, 1e-4, 0.99)
+
+
+@given(
+    units=st.integers(min_value=4, max_value=400),
+    effect=st.floats(min_value=0.05, max_value=1.5),
+    design=st.sampled_from(DESIGNS),
+)
+@settings(max_examples=40, deadline=None)
+def test_power_grows_with_sample_and_effect(units: int, effect: float, design: Design) -> None:
+    # A property of every power function: more learners or a larger effect never lose power.
+    term = design.terms()[0]
+    here = solve.power(design, term, effect, units)
+    assert alpha_floor(design) <= here <= 1.0
+    assert solve.power(design, term, effect, units + 1) >= here - 1e-12
+    assert solve.power(design, term, effect * 1.1, units) >= here - 1e-12
+
+
+def alpha_floor(design: Design) -> float:
+    """Power to detect a positive effect is at least about α/2 (two-sided) or α (one-sided)."""
+    return design.alpha / 2 if not design.one_sided else design.alpha

@@ -71,15 +71,23 @@ def power(design: Design, term: Term, effect: float, units: float) -> float:
         if design.pretest_r is None:
             from statsmodels.stats.power import TTestIndPower
 
-            value = TTestIndPower().power(
-                effect_size=d,
-                nobs1=n1,
-                alpha=design.alpha,
-                ratio=design.ratio,
-                alternative=alternative,
+            value = float(
+                TTestIndPower().power(
+                    effect_size=d,
+                    nobs1=n1,
+                    alpha=design.alpha,
+                    ratio=design.ratio,
+                    alternative=alternative,
+                )
             )
-            return float(value)
+            if not math.isnan(value):
+                return value
+            # statsmodels adds the far tail, which scipy's nct returns as NaN once it
+            # underflows (power near 1): the same sum, with that tail taken as 0.
         n2 = n1 * design.ratio
+        if design.pretest_r is None:
+            ncp = d * math.sqrt(n1 * n2 / (n1 + n2))
+            return _t_power(ncp, n1 + n2 - 2, design.alpha, design.one_sided)
         ncp = d * math.sqrt(n1 * n2 / (n1 + n2) / share)
         return _t_power(ncp, n1 + n2 - 3, design.alpha, design.one_sided)
     total = n1 * design.cells
@@ -114,7 +122,9 @@ def _t_power(ncp: float, df: float, alpha: float, one_sided: bool) -> float:
     if one_sided:
         return float(nct.sf(central_t.isf(alpha, df), df, ncp))
     critical = central_t.isf(alpha / 2, df)
-    return float(nct.sf(critical, df, ncp) + nct.cdf(-critical, df, ncp))
+    far = float(nct.cdf(-critical, df, ncp))
+    # The far tail underflows to NaN in scipy's nct when the effect is large: it is ~0 then.
+    return float(nct.sf(critical, df, ncp)) + (0.0 if math.isnan(far) else far)
 
 
 def units_needed(design: Design, term: Term, effect: float, target: float) -> int:
