@@ -76,6 +76,7 @@ BAD = [
     (["--effect", "0.5", "--power", "0.8", "--alpha", "0.6"], "--alpha"),
     (["--effect", "0.5", "--power", "0.8", "--alpha", "0"], "--alpha"),
     (["--n", "1", "--effect", "0.5"], "--n"),
+    (["--n", "3", "--effect", "0.5", "--ratio", "0.5"], "--n 3 is too few"),
     (["--effect", "0.5", "--power", "0.8", "--pretest-r", "1"], "--pretest-r"),
     (["--effect", "0.5", "--power", "0.8", "--pretest-r", "-0.2"], "--pretest-r"),
     (["--effect", "0.5", "--power", "0.8", "--icc", "1", "--class-size", "20"], "--icc"),

@@ -9,6 +9,7 @@ import re
 from dataclasses import dataclass
 
 from matcheck.errors import UsageError
+from matcheck.power import solve
 from matcheck.power.designs import (
     Design,
     Kind,
@@ -145,6 +146,12 @@ def run(request: Request) -> list[Result]:
         sample = "--classes" if design.clustered else "--n"
         raise UsageError(
             f"give exactly two of {sample}, --effect and --power: the third is computed"
+        )
+    if units is not None and units < solve.units_minimum(design):
+        sample = "--classes" if design.clustered else "--n"
+        raise UsageError(
+            f"{sample} {units} is too few for this design: at least "
+            f"{solve.units_minimum(design)} per condition (with --ratio, the second group too)"
         )
     if design.one_sided and any(term.df > 1 for term in terms):
         raise UsageError("--one-sided applies to contrasts with one degree of freedom")

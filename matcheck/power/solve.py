@@ -39,7 +39,10 @@ def units_minimum(design: Design) -> int:
     covariate = 0 if design.pretest_r is None else 1
     # At least 2 per condition, and N − cells − covariate ≥ 1 (N counts units).
     smallest = 2
-    while _units_total(design, smallest) - design.cells - covariate < 1:
+    while (
+        _units_total(design, smallest) - design.cells - covariate < 1
+        or smallest * design.ratio < 2  # the second of two unequal groups, too
+    ):
         smallest += 1
     return smallest
 
