@@ -238,11 +238,6 @@ def table(
     return EXIT_MATCHED
 
 
-class PowerFormat(StrEnum):
-    text = "text"
-    json = "json"
-
-
 @app.command()
 def power(
     effect: Annotated[float | None, typer.Option("--effect", help="Effect size (d, or f).")] = None,
@@ -274,18 +269,19 @@ def power(
         float | None, typer.Option("--difference", help="Mean difference, in points (with --sd).")
     ] = None,
     sd: Annotated[float | None, typer.Option("--sd", help="Outcome SD, in points.")] = None,
-    format: Annotated[PowerFormat, typer.Option("--format", "-f")] = PowerFormat.text,
+    format: Annotated[str, typer.Option("--format", "-f", help=_formats(Subject.POWER))] = "text",
+    output: Output = None,
 ) -> int:
     """Sample size, power or smallest detectable effect (give two of --n, --effect, --power)."""
     from matcheck.power.command import Request, run
-    from matcheck.power.render import render_json, render_text
 
+    formatter = get(Subject.POWER, format)
     request = Request(
         design, groups, levels, term, effect, effect_measure, n, classes, power_, alpha,
         one_sided, ratio, pretest_r, icc, class_size, difference, sd,
     )  # fmt: skip
     results = run(request)
-    emit((render_json if format is PowerFormat.json else render_text)(results), None, [])
+    deliver(formatter, results, output, [])
     return EXIT_MATCHED
 
 

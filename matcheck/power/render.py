@@ -71,7 +71,8 @@ def sentence(result: Result) -> str:
     )
 
 
-def render_text(results: Sequence[Result]) -> str:
+def render_text(results: Sequence[Result], options: object = None) -> str:
+    """A sentence per contrast (``options``: the registry's RenderOptions, unused)."""
     text = describe_design(results[0].design)
     lines = [text[0].upper() + text[1:] + "."]
     lines += [f"  {sentence(result)}" for result in results]
@@ -117,7 +118,7 @@ def governing(results: Sequence[Result]) -> Result:
     return max(results, key=lambda r: r.effect.f)
 
 
-def render_json(results: Sequence[Result]) -> str:
+def render_json(results: Sequence[Result], options: object = None) -> str:
     design = results[0].design
     top = governing(results)
     data: dict[str, Any] = {

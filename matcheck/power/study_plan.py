@@ -9,9 +9,10 @@ finding (group ``design``) per contrast the design tests.
 from __future__ import annotations
 
 import re
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Any
+from pathlib import Path
+from typing import TYPE_CHECKING, Any, Protocol
 
 from matcheck.errors import ConfigError
 from matcheck.power.designs import TIMES, Design, Kind, Measure, Term
@@ -20,7 +21,26 @@ from matcheck.power.rules import problem
 if TYPE_CHECKING:
     from matcheck.findings import Finding
     from matcheck.power.plan import Assessment
-    from matcheck.study import Study
+
+
+class _Factor(Protocol):
+    @property
+    def name(self) -> str: ...
+    @property
+    def levels(self) -> tuple[str, ...]: ...
+
+
+class Study(Protocol):
+    """What a power design needs of :class:`matcheck.study.Study` (which imports this
+    module, so it is not imported back)."""
+
+    @property
+    def path(self) -> Path: ...
+    @property
+    def conditions(self) -> Sequence[object]: ...
+    @property
+    def factors(self) -> Sequence[_Factor]: ...
+
 
 SAMPLE_KEYS = {
     "per_condition",
