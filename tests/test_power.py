@@ -3,7 +3,7 @@
 - Cohen's table of n per group (docs/references.md §6);
 - statsmodels' power classes as a reference library (its solvers, for a grid of designs);
 - the ANCOVA and cluster adjustments against hand computations from their published
-  formulas (docs/references.md §6b, §6c);
+  formulas (docs/references.md §6.2, §6.3);
 - sensitivity as the inverse of the sample-size computation (round trip).
 """
 
@@ -176,7 +176,7 @@ def test_sensitivity_round_trip(design: Design, units: int) -> None:
 @pytest.mark.parametrize("d", [0.3, 0.5])
 def test_ancova_matches_borm_formula(rho: float, d: float) -> None:
     # Borm, Fransen & Lemmens (2007): ANCOVA needs (1 − ρ²)·n of the t-test's n per group;
-    # docs/references.md §6b. Hand computation from statsmodels' float n for the t-test.
+    # docs/references.md §6.2. Hand computation from statsmodels' float n for the t-test.
     n_t = TTestIndPower().solve_power(effect_size=d, alpha=0.05, power=0.8)
     approximate = n_t * (1 - rho**2)
     assert ancova_n(n_t, rho) == pytest.approx(approximate)
@@ -205,7 +205,7 @@ def test_no_correlation_costs_one_degree_of_freedom() -> None:
 @pytest.mark.parametrize(("m", "icc"), [(25, 0.2), (20, 0.1), (30, 0.05)])
 @pytest.mark.parametrize("d", [0.25, 0.4])
 def test_cluster_design_effect_by_hand(m: int, icc: float, d: float) -> None:
-    # Donner & Klar (2000): deff = 1 + (m − 1)·ICC; docs/references.md §6c. By hand: the
+    # Donner & Klar (2000): deff = 1 + (m − 1)·ICC; docs/references.md §6.3. By hand: the
     # individually randomised n (statsmodels), times deff, in whole classes of m.
     assert design_effect(25, 0.2) == pytest.approx(5.8)
     n_individual = TTestIndPower().solve_power(effect_size=d, alpha=0.05, power=0.8)

@@ -3,13 +3,13 @@
 - Pre-test as covariate (ANCOVA): with a pre-/post-test correlation ρ, adjusting for the
   pre-test leaves ``1 − ρ²`` of the error variance, so "ANCOVA comparing groups of
   (1 − ρ²)·n subjects has the same power as a t-test comparing groups of n subjects"
-  (Borm, Fransen & Lemmens 2007, J Clin Epidemiol 60:1234–1238; docs/references.md §6b).
+  (Borm, Fransen & Lemmens 2007, J Clin Epidemiol 60:1234–1238; docs/references.md §6.2).
   :mod:`matcheck.power.solve` computes ANCOVA power exactly from the noncentral t or F
   distribution with the error variance scaled by ``1 − ρ²`` and one error degree of freedom
   spent on the covariate; :func:`ancova_n` is the approximation, used to check it.
 - Whole classes assigned (cluster randomisation): the variance of a condition mean grows by
   the design effect ``1 + (m − 1)·ICC`` for m learners per class (Donner & Klar 2000;
-  docs/references.md §6c), so n learners carry the information of ``n / deff``
+  docs/references.md §6.3), so n learners carry the information of ``n / deff``
   independent ones. Power is computed for the analysis of class means, whose error degrees
   of freedom count classes, not learners (:func:`class_mean_scale`);
   :func:`classes_needed` is the plain design-effect count, used to check it.
