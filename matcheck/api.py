@@ -203,6 +203,10 @@ def _study_report(
             findings,
         )
         findings = (*findings, *extra)
+    if study.sample is not None:
+        from matcheck.power.study_plan import design_findings
+
+        findings = (*findings, *design_findings(study, study.sample))
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
     return Report(
         conditions=tuple(conditions),
@@ -284,6 +288,8 @@ def check_against(
     }
     broken: dict[tuple[str, str], list[str]] = {}
     for finding in now.root_findings(Status.DIFFERS):
+        if finding.group == "design":  # the planned sample, not the materials, changed
+            continue
         if (finding.reference, finding.condition, finding.key) in held:
             broken.setdefault((finding.condition, finding.reference), []).append(finding.key)
     regressions = [

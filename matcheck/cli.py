@@ -239,6 +239,53 @@ def table(
 
 
 @app.command()
+def power(
+    effect: Annotated[float | None, typer.Option("--effect", help="Effect size (d, or f).")] = None,
+    n: Annotated[int | None, typer.Option("--n", help="Learners per condition.")] = None,
+    power_: Annotated[float | None, typer.Option("--power", help="Target power.")] = None,
+    alpha: Annotated[float, typer.Option("--alpha", help="Significance level.")] = 0.05,
+    one_sided: Annotated[bool, typer.Option("--one-sided", help="A one-sided test.")] = False,
+    design: Annotated[
+        str | None, typer.Option("--design", help="two-group, k-group or factorial.")
+    ] = None,
+    groups: Annotated[int | None, typer.Option("--groups", help="k for k-group.")] = None,
+    levels: Annotated[str | None, typer.Option("--levels", help="Factorial, e.g. 2x2.")] = None,
+    term: Annotated[str | None, typer.Option("--term", help="A, B, AxB...; default all.")] = None,
+    effect_measure: Annotated[
+        str | None, typer.Option("--effect-measure", help="d or f (default d for two groups).")
+    ] = None,
+    ratio: Annotated[float | None, typer.Option("--ratio", help="n2/n1, two groups.")] = None,
+    pretest_r: Annotated[
+        float | None, typer.Option("--pretest-r", help="Pre-test correlation (covariate).")
+    ] = None,
+    icc: Annotated[
+        float | None, typer.Option("--icc", help="ICC when classes are assigned.")
+    ] = None,
+    class_size: Annotated[
+        int | None, typer.Option("--class-size", help="Learners per class.")
+    ] = None,
+    classes: Annotated[int | None, typer.Option("--classes", help="Classes per condition.")] = None,
+    difference: Annotated[
+        float | None, typer.Option("--difference", help="Mean difference, in points (with --sd).")
+    ] = None,
+    sd: Annotated[float | None, typer.Option("--sd", help="Outcome SD, in points.")] = None,
+    format: Annotated[str, typer.Option("--format", "-f", help=_formats(Subject.POWER))] = "text",
+    output: Output = None,
+) -> int:
+    """Sample size, power or smallest detectable effect (give two of --n, --effect, --power)."""
+    from matcheck.power.command import Request, run
+
+    formatter = get(Subject.POWER, format)
+    request = Request(
+        design, groups, levels, term, effect, effect_measure, n, classes, power_, alpha,
+        one_sided, ratio, pretest_r, icc, class_size, difference, sd,
+    )  # fmt: skip
+    results = run(request)
+    deliver(formatter, results, output, [])
+    return EXIT_MATCHED
+
+
+@app.command()
 def measures() -> int:
     """List every measure with its id, group, unit and default tolerance."""
     from rich.console import Console

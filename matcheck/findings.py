@@ -47,6 +47,7 @@ class Group(StrEnum):
     STRUCTURE = "structure"
     SIGNALING = "signaling"
     ASSESSMENT = "assessment"
+    DESIGN = "design"  # the study's power for each contrast (matcheck.power)
     # The learners' data (matcheck/data): baseline, attrition and exposure; the post-test's
     # quality; the effect found.
     GROUPS = "groups"
@@ -64,6 +65,7 @@ class Basis(StrEnum):
     NOT_SHOWN = "not_shown"  # a format cannot show it, or it is undefined in one version
     TEST_INCONCLUSIVE = "test_inconclusive"  # beyond tolerance, but a test cannot show it
     ECHO = "echo"  # follows a root cause that is itself inconclusive
+    POWER = "power"  # the planned sample's power for a contrast, against the target
 
 
 class EvidenceKind(StrEnum):

@@ -12,14 +12,26 @@ import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from matcheck.data.spec import DataSpec, parse_data
 from matcheck.errors import ConfigError
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
+if TYPE_CHECKING:
+    from matcheck.power.study_plan import SamplePlan
+
 _LESSON_SUFFIXES = {".docx", ".pdf", ".md", ".markdown", ".txt", ".doc", ".odt", ".rtf"}
-TOP_KEYS = {"study", "factors", "conditions", "tolerances", "posttest", "comparison", "data"}
+TOP_KEYS = {
+    "study",
+    "factors",
+    "conditions",
+    "tolerances",
+    "posttest",
+    "comparison",
+    "data",
+    "sample",
+}
 STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
 FACTOR_KEYS = {"levels", "manipulates", "description"}
 CONDITION_KEYS = {"name", "files", "levels", "description"}
@@ -68,6 +80,8 @@ class Study:
     comparison: ComparisonSettings = DEFAULT_COMPARISON
     # The learners' data ([data], docs/study-data.md); None without it.
     data: DataSpec | None = None
+    # The planned sample ([sample], docs/power.md); None when the file has none.
+    sample: SamplePlan | None = None
 
     def condition(self, name: str) -> StudyCondition:
         return next(c for c in self.conditions if c.name == name)
@@ -262,7 +276,7 @@ def load_study(path: Path, *, with_data: bool = True) -> Study:
 
     comparison = _comparison(path, data.get("comparison", {}), threshold)
     learners = parse_data(path, data["data"]) if with_data and "data" in data else None
-    return Study(
+    study_ = Study(
         path=path,
         title=title,
         reference=reference,
@@ -275,6 +289,15 @@ def load_study(path: Path, *, with_data: bool = True) -> Study:
         comparison=comparison,
         data=learners,
     )
+    if "sample" in data:
+        from dataclasses import replace
+
+        from matcheck.power.study_plan import parse_sample, study_design
+
+        plan = parse_sample(data["sample"], shown)
+        study_design(study_, plan)  # refuses a design power cannot be computed for
+        study_ = replace(study_, sample=plan)
+    return study_
 
 
 def _comparison(path: Path, table: object, coverage: float | None) -> ComparisonSettings:

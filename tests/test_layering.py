@@ -27,6 +27,17 @@ FORBIDDEN = {
     "study": {"readers", "compare.engine", "report", "api", "cli", "batch"},
     "api": {"report", "cli", "batch"},
     "batch": {"report", "cli"},
+    "power": {
+        "readers",
+        "language",
+        "measures",
+        "compare",
+        "report",
+        "api",
+        "cli",
+        "batch",
+        "study",
+    },
 }
 
 

@@ -30,4 +30,9 @@ BUILTIN = (
     Formatter("latex", M, f"{_M}.methods.latex:render_latex", "LaTeX", extension=".tex"),
     Formatter("docx", M, f"{_M}.methods.word:render_docx", "Word", binary=True, extension=".docx"),
     Formatter("text", M, f"{_M}.methods.prose:render_text", "a methods paragraph"),
+    # power: sample size, power or sensitivity of a design
+    Formatter("text", Subject.POWER, "matcheck.power.render:render_text", "sentences"),
+    Formatter(
+        "json", Subject.POWER, "matcheck.power.render:render_json", "JSON", extension=".json"
+    ),
 )

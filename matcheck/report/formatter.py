@@ -20,6 +20,7 @@ class Subject(StrEnum):
     STUDIES = "studies"
     PROFILES = "profiles"
     METHODS = "methods"
+    POWER = "power"
 
 
 @dataclass(frozen=True, slots=True)

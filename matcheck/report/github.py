@@ -79,7 +79,9 @@ def render_github(report: Report, options: RenderOptions | None = None) -> str:
             f"{finding.status.value} ({format_difference(finding)}; tolerance "
             f"{format_tolerance(finding)})"
         )
-        if finding.reference == finding.condition:  # the post-test itself, no pair
+        if finding.group == "design":  # a contrast of the study, not a pair of versions
+            message = f"{finding.dimension}: {finding.reason}"
+        elif finding.reference == finding.condition:  # the post-test itself, no pair
             message = f"post-test ({finding.condition}): {finding.dimension}: {finding.reason}"
         if evidence is not None:
             pair = (finding.reference, finding.condition)

@@ -26,6 +26,19 @@ def _cell(text: str) -> str:
     return text.replace("|", "\\|").replace("\n", " ")
 
 
+def _design(report: Report) -> list[str]:
+    from matcheck.report.design import HEADER, NOTE, TITLE, design_rows, shortfalls
+
+    rows = design_rows(report)
+    if not rows:
+        return []
+    lines = [f"### {TITLE}", "", "| " + " | ".join(HEADER) + " |", "|---|---|--:|--:|--:|--:|--:|"]
+    for verdict, *cells in rows:
+        lines.append(f"| {ICONS[Status(verdict)]} | " + " | ".join(_cell(c) for c in cells) + " |")
+    lines += ["", NOTE, ""]
+    return [*lines, *(f"- {_cell(line)}" for line in shortfalls(report)), ""]
+
+
 def render_markdown(report: Report, options: RenderOptions | None = None) -> str:
     counts = summary_counts(report)
     lines = ["## matcheck report", ""]
@@ -91,6 +104,7 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
             pair = (finding.reference, finding.condition)
             lines += [f"- {_cell(describe_evidence(item, pair))}" for item in finding.evidence]
             lines += ["", "</details>", ""]
+    lines += _design(report)
     if report.data is not None:
         from matcheck.report.study_data import render_markdown as data_markdown
 

@@ -134,6 +134,7 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
             )
     if report.spreads:
         _render_spread(report, console)
+    _render_design(report, console)
     if report.revision:
         _render_changes(report, console)
     counts = summary_counts(report)
@@ -149,6 +150,26 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
     )
     for note in report.notes:
         console.print(f"[dim]{note}[/dim]")
+
+
+def _render_design(report: Report, console: Console) -> None:
+    from rich.table import Table
+
+    from matcheck.report.design import HEADER, NOTE, TITLE, design_rows, shortfalls
+
+    rows = design_rows(report)
+    if not rows:
+        return
+    table = Table(title=TITLE, title_justify="left", header_style="bold")
+    for column in HEADER:
+        table.add_column(column, justify="left" if column in HEADER[:2] else "right")
+    for row in rows:
+        table.add_row(*row, style=STYLES[Status(row[0])] if row[0] != "matched" else None)
+    console.print(table)
+    console.print(f"[dim]{NOTE}[/dim]")
+    for line in shortfalls(report):
+        console.print(f"  • {line}", highlight=False, markup=False)
+    console.print()
 
 
 def _render_spread(report: Report, console: Console) -> None:

@@ -60,8 +60,22 @@ def methods_table(
     title = f"{TITLE}: {report.title}" if report.title else TITLE
     notes = table_notes(rows, report.words_per_minute, _untaught(items, threshold or 1.0))
     return MethodsTable(
-        number, title, columns, tuple(rows), notes, report.words_per_minute, report.data
+        number,
+        title,
+        columns,
+        tuple(rows),
+        notes,
+        report.words_per_minute,
+        data=report.data,
+        sample_size=_sample_size(report),
     )
+
+
+def _sample_size(report: Report) -> str:
+    """The sample-size paragraph (matcheck.report.design), shown after the table's note."""
+    from matcheck.report.design import sample_size_paragraph
+
+    return sample_size_paragraph(report)
 
 
 def _verdict(findings: Sequence[Finding]) -> str:

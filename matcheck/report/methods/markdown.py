@@ -29,4 +29,5 @@ def render_markdown(table: MethodsTable, options: RenderOptions | None = None) -
         from matcheck.report.study_data import methods_baseline_markdown
 
         lines += methods_baseline_markdown(table.data)
+    lines += ["", table.sample_size] if table.sample_size else []
     return "\n".join(lines) + "\n"

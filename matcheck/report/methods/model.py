@@ -102,6 +102,8 @@ class MethodsTable:
     words_per_minute: float = DEFAULT_WPM
     # The learners' data, for a baseline-equivalence table and a sentence (study_data.py).
     data: StudyData | None = None
+    # The power of the planned sample, for the methods section ("" without [sample]).
+    sample_size: str = ""
 
     @property
     def note(self) -> str:

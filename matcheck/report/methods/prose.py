@@ -55,4 +55,5 @@ def render_text(table: MethodsTable, options: RenderOptions | None = None) -> st
         from matcheck.report.study_data import methods_sentence
 
         sentences.append(methods_sentence(table.data))
-    return " ".join(s for s in sentences if s) + "\n"
+    sample = f"\n\n{table.sample_size}" if table.sample_size else ""
+    return " ".join(s for s in sentences if s) + sample + "\n"

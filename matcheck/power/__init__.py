@@ -1,0 +1,1 @@
+"""Power, sample size and sensitivity for the designs of education studies (docs/power.md)."""

@@ -1,0 +1,35 @@
+"""The ranges of every power input, checked the same way for the CLI and the study file.
+
+:func:`problem` returns the one-line complaint (naming ``label``, the option or key) or
+``None``; the caller raises the error of its context (UsageError or ConfigError).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+# name → (accepts, what it must be)
+RULES: dict[str, tuple[Callable[[float], bool], str]] = {
+    "effect": (lambda v: v > 0, "an effect size above 0"),
+    "sd": (lambda v: v > 0, "a standard deviation above 0"),
+    "power": (lambda v: 0 < v < 1, "a power between 0 and 1 (both excluded)"),
+    "alpha": (lambda v: 0 < v <= 0.5, "an alpha in (0, 0.5]"),
+    "pretest_r": (lambda v: 0 <= v < 1, "a correlation in [0, 1)"),
+    "icc": (lambda v: 0 <= v < 1, "an intraclass correlation in [0, 1)"),
+    "n": (lambda v: v >= 2 and float(v).is_integer(), "a whole number of 2 or more per group"),
+    "classes": (lambda v: v >= 2 and float(v).is_integer(), "a whole number of 2 or more classes"),
+    "class_size": (lambda v: v >= 2 and float(v).is_integer(), "a whole number of 2 or more"),
+    "ratio": (lambda v: 0 < v <= 100, "a ratio of group sizes in (0, 100]"),
+    "groups": (lambda v: v >= 2 and float(v).is_integer(), "a whole number of 2 or more groups"),
+}
+
+
+def problem(name: str, value: object, label: str) -> str | None:
+    """``None`` if ``value`` is valid for ``name``, else the complaint naming ``label``."""
+    accepts, wanted = RULES[name]
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        return f"{label} must be {wanted}, not {value!r}"
+    number = float(value)
+    if number != number or not accepts(number):  # NaN fails every rule
+        return f"{label} must be {wanted}, not {value:g}"
+    return None
