@@ -1,7 +1,8 @@
 """The spaCy pipeline, loaded once and lazily: tokens, sentences and lemmas, offline.
 
-matcheck always uses a *blank* English pipeline with the rule-based sentencizer, and lemmas
-from the English lookup table of ``spacy-lookups-data``. A trained pipeline would give
+matcheck always uses a *blank* English pipeline whose only component marks the sentence
+starts found by :mod:`matcheck.language.segment` on its tokens, and lemmas from the English
+lookup table of ``spacy-lookups-data`` corrected by :mod:`matcheck.language.lemmas`. A trained pipeline would give
 slightly different sentences and lemmas on different machines depending on what happens to be
 installed; the blank one makes every result reproducible and needs no model download.
 """
@@ -13,15 +14,41 @@ from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     from spacy.language import Language
+    from spacy.tokens import Doc
+
+
+SENTENCES = "matcheck_sentences"
+
+
+def _mark_sentences(doc: Doc) -> Doc:
+    """Set ``is_sent_start`` on every token from the rule-based boundaries of the text.
+
+    Boundaries fall after white space, where spaCy always starts a token; a boundary that
+    should fall inside a token moves to the next token start, so no text is tokenised twice.
+    """
+    from matcheck.language.segment import sentence_starts
+
+    starts = sentence_starts(doc.text)
+    index = 0
+    for token in doc:
+        is_start = token.i == 0
+        while index < len(starts) and starts[index] <= token.idx:
+            is_start = True
+            index += 1
+        token.is_sent_start = is_start
+    return doc
 
 
 @cache
 def nlp() -> Language:
-    """The shared pipeline (tokenizer + sentencizer)."""
+    """The shared pipeline: spaCy's English tokenizer and the rule-based sentence starts."""
     import spacy
+    from spacy.language import Language
 
+    if SENTENCES not in Language.factories:
+        Language.component(SENTENCES, func=_mark_sentences)
     pipeline = spacy.blank("en")
-    pipeline.add_pipe("sentencizer")
+    pipeline.add_pipe(SENTENCES)
     # Blocks are processed one at a time; a PDF can still yield one very long block.
     pipeline.max_length = 50_000_000
     return pipeline
