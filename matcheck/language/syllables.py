@@ -139,26 +139,32 @@ def _stem_syllables(word: str, syllables: int) -> int:
     return syllables - 1 if syllabic else syllables
 
 
-def is_fog_hard_word(word: str, syllables: int, *, sentence_initial: bool) -> bool:
+def is_fog_hard_word(
+    word: str, syllables: int, *, sentence_initial: bool, previous: str = ""
+) -> bool:
     """Whether Gunning (1952) would count ``word`` (of ``syllables`` syllables) as hard.
 
     Gunning's hard words have three or more syllables (formula VERIFIED in DuBay 2004). He does
-    not count (SECONDARY, docs/references.md §2.1; the book page is FROM MEMORY):
+    not count (SECONDARY, docs/references.md §2.1 and §19; the book page is FROM MEMORY):
 
-    - proper names: a capitalised word that is not sentence-initial. A sentence-initial word
-      cannot be told apart from an ordinary word by its capital, so it is judged like one;
+    - proper names: :func:`matcheck.language.counting.is_name`; ``sentence_initial`` says the
+      word opens its sentence or unit, where a capital cannot be told from an ordinary word's;
     - compounds of easy words: a hyphenated word none of whose parts has three syllables
       ("user-friendly"). "self-explanatory" stays hard, its part "explanatory" being hard.
       Closed compounds ("bookkeeper") cannot be recognised without a compound lexicon and
       are counted when they reach three syllables;
-    - verb forms made three syllables by -ed or -es ("created", "trespasses"): the word is
-      not counted when its stem has fewer than three syllables. The stem's count comes from
-      the pronouncing dictionary, or, for a stem it lacks, from the sound rule that -ed is a
-      syllable only after t/d and -es only after a sibilant (common practice).
+    - verb forms made three syllables by -ed or -es ("created", "it trespasses"): the word is
+      not counted when it is a verb form (:func:`matcheck.language.counting.is_verb_form`,
+      which reads ``previous``, the lower-cased word before it) and its stem has fewer than
+      three syllables. Plural nouns ("damages", "resources") are counted. The stem's count
+      comes from the pronouncing dictionary, or, for a stem it lacks, from the sound rule
+      that -ed is a syllable only after t/d and -es only after a sibilant (common practice).
     """
+    from matcheck.language.counting import is_name, is_verb_form
+
     if syllables < 3:
         return False
-    if word[:1].isupper() and not sentence_initial:
+    if is_name(word, opening=sentence_initial):
         return False
     parts = [part for part in _HYPHENS.split(word) if part]
     if len(parts) > 1:
@@ -167,6 +173,6 @@ def is_fog_hard_word(word: str, syllables: int, *, sentence_initial: bool) -> bo
             is_fog_hard_word(part, count_syllables(part), sentence_initial=True) for part in parts
         )
     lowered = _clean(word)
-    if lowered.endswith(("ed", "es")) and len(lowered) > 3:
+    if lowered.endswith(("ed", "es")) and len(lowered) > 3 and is_verb_form(lowered, previous):
         return _stem_syllables(lowered, syllables) >= 3
     return True
