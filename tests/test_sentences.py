@@ -8,6 +8,7 @@ our own, one per rule of matcheck/language/segment.py.
 
 from __future__ import annotations
 
+import itertools
 import json
 from pathlib import Path
 
@@ -27,7 +28,7 @@ GOLDEN_PASS_RATE = 47 / 48
 
 def _split(text: str) -> list[str]:
     starts = [*sentence_starts(text), len(text)]
-    return [text[a:b].strip() for a, b in zip(starts, starts[1:], strict=False)]
+    return [text[a:b].strip() for a, b in itertools.pairwise(starts)]
 
 
 def _spacy_split(text: str) -> list[str]:

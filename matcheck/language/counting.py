@@ -69,6 +69,8 @@ def _index() -> dict[str, frozenset[str]]:
     from spacy.util import load_language_data, registry
 
     data = load_language_data(registry.lookups.get("en")["lemma_index"])
+    if not isinstance(data, dict):
+        raise ValueError("the English lemma index of spacy-lookups-data is not a mapping")
     return {str(pos): frozenset(map(str, words)) for pos, words in data.items()}
 
 

@@ -2,9 +2,9 @@
 
 matcheck always uses a *blank* English pipeline whose only component marks the sentence
 starts found by :mod:`matcheck.language.segment` on its tokens, and lemmas from the English
-lookup table of ``spacy-lookups-data`` corrected by :mod:`matcheck.language.lemmas`. A trained pipeline would give
-slightly different sentences and lemmas on different machines depending on what happens to be
-installed; the blank one makes every result reproducible and needs no model download.
+lookup table of ``spacy-lookups-data`` corrected by :mod:`matcheck.language.lemmas`. A
+trained pipeline would give slightly different sentences and lemmas on different machines
+depending on what happens to be installed; the blank one makes every result reproducible and needs no model download.
 """
 
 from __future__ import annotations
