@@ -4,7 +4,8 @@ matcheck always uses a *blank* English pipeline whose only component marks the s
 starts found by :mod:`matcheck.language.segment` on its tokens, and lemmas from the English
 lookup table of ``spacy-lookups-data`` corrected by :mod:`matcheck.language.lemmas`. A
 trained pipeline would give slightly different sentences and lemmas on different machines
-depending on what happens to be installed; the blank one makes every result reproducible and needs no model download.
+depending on what happens to be installed; the blank one makes every result reproducible
+and needs no model download.
 """
 
 from __future__ import annotations
