@@ -8,7 +8,8 @@ with a space. Two kinds of line are recognised (docs/formats.md, "Plain text"):
   or a number or lower-case letter followed by ``.`` or ``)``, then a space and text. The
   marker is left out of the text, as Markdown leaves it out; the lines that follow without a
   marker, up to a blank line, continue the item. Items indented by two spaces or more are
-  nested (level 2 and deeper). Consecutive items form one list;
+  nested (level 2 and deeper). Consecutive items form one list. A paragraph that is a single
+  marked line, alone between blank lines, stays a paragraph with its marker;
 - a **title** is a paragraph of a single line, of at most :data:`TITLE_MAX_WORDS` words, that
   does not end in sentence punctuation (``. ! ? : ; ,``), or such a line directly above a list.
 
@@ -71,6 +72,10 @@ def _add_paragraph(builder: DocumentBuilder, first_line: int, lines: list[str]) 
             items[-1][2].append(line)
         else:
             lead.append(line)
+    if len(items) == 1 and not lead and len(items[0][2]) == len(lines):
+        # A lone marked line between blank lines ("5) Which beans suit espresso?") is read as
+        # written: a numbered paragraph keeps its number (post-tests state ids this way).
+        lead, items = lines, []
     if lead:
         title = len(lead) == 1 and _is_title(lead[0])
         kind = BlockKind.HEADING if title else BlockKind.PARAGRAPH
