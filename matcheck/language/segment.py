@@ -8,9 +8,12 @@ tokenised once. A block boundary always ends a sentence as well; that is not dec
 A run ends a sentence when the next word starts with a capital letter, a digit or an opening
 quote or bracket, except:
 
-- after an abbreviation of :data:`TITLES` ("Dr.", "Fig.", "No.", "approx.", "et al."...), which
-  never ends a sentence before a digit or a lower-case word, and otherwise only before a
-  capitalised function word ("etc. The", "Co. It", "U.S. How", but not "U.S. Government");
+- after a title (:data:`TITLES`: "Dr.", "Mt.", "Jan."), an abbreviation of running text
+  (:data:`RUNNING`: "etc.", "et al.", "Co.") or a dotted abbreviation ("U.S.", "e.g."), which
+  ends a sentence only before a capitalised function word ("etc. The", "Co. It", "U.S. How",
+  but not "U.S. Government" or "Dr. Lee");
+- after a label, measure or date before a digit (:data:`NUMBER_LABELS`, :data:`DATES`:
+  "Fig. 2", "no. 4", "approx. 5", "Jan. 5");
 - after a single capital initial: after a name ("Jonas E. Smith") only before a capitalised
   function word ("you and I. Did"), after a lower-case word always ("port B. Do");
 - after a step number ("Step 1. Remove the wheel"), see :data:`STEP_LABELS`;
@@ -31,27 +34,31 @@ from __future__ import annotations
 import re
 from functools import cache
 
-# Abbreviations (lower case, without the final period) that do not end a sentence unless a
-# capitalised function word follows. Titles before names, labels before numbers, Latin
-# abbreviations of running text, and company suffixes; "et al." is matched by its "al".
+# Abbreviations, lower case and without their final period (docs/measures.md lists them).
+# Titles count only when written with a capital ("Gen." but not "gen."):
+# several are ordinary words in lower case ("rep", "sun", "mar"). "st" is also "street".
 TITLES = frozenset(
-    {
-        # titles before a name
-        "dr", "mr", "mrs", "ms", "prof", "st", "mt", "sr", "jr", "rev", "hon", "capt", "col",
-        "gen", "lt", "sgt", "gov", "sen", "rep", "pres", "messrs", "mme", "mlle",
-        # labels before a number
-        "fig", "figs", "eq", "eqs", "no", "nos", "n°", "vol", "vols", "p", "pp", "ch", "chap",
-        "sec", "sect", "art", "para", "pt", "ed", "eds", "op", "tab", "ref", "refs", "ex",
-        # measures and approximations
-        "approx", "ca", "c", "min", "max", "avg", "est", "dept", "ave", "rd", "blvd",
-        # Latin and other abbreviations of running text
-        "cf", "etc", "al", "vs", "viz", "ibid", "resp", "incl", "excl", "esp",
-        # company suffixes
-        "co", "corp", "inc", "ltd", "bros",
-        # months and days
-        "jan", "feb", "mar", "apr", "jun", "jul", "aug", "sep", "sept", "oct", "nov", "dec",
-        "mon", "tue", "tues", "wed", "thu", "thurs", "fri", "sat", "sun",
-    }
+    {"dr", "mr", "mrs", "ms", "prof", "st", "mt", "sr", "jr", "rev", "hon", "capt", "col",
+     "gen", "lt", "sgt", "gov", "sen", "rep", "pres", "messrs", "mme", "mlle"}
+)  # fmt: skip
+# Months and days, with a capital: no sentence ends between them and a digit ("Jan. 5").
+DATES = frozenset(
+    {"jan", "feb", "mar", "apr", "jun", "jul", "aug", "sep", "sept", "oct", "nov", "dec",
+     "mon", "tue", "tues", "wed", "thu", "thurs", "fri", "sat", "sun"}
+)  # fmt: skip
+_LOWER_CASE_TITLES = frozenset({"st"})
+# Latin abbreviations of running text and company suffixes, in any case; "et al." is its "al".
+RUNNING = frozenset(
+    {"cf", "etc", "al", "vs", "viz", "ibid", "resp", "incl", "excl", "esp",
+     "co", "corp", "inc", "ltd", "bros"}
+)  # fmt: skip
+# Labels and measures before a number: no sentence ends between them and a digit ("Fig. 2",
+# "no. 4", "approx. 5 kg"); before anything else they are read as ordinary words, since
+# several are words too ("The answer is no. Ask again.", "Bake for 30 min. Remove the tray.").
+NUMBER_LABELS = frozenset(
+    {"fig", "figs", "eq", "eqs", "no", "nos", "n°", "vol", "vols", "p", "pp", "ch", "chap",
+     "sec", "sect", "art", "para", "pt", "ed", "eds", "op", "tab", "ref", "refs", "ex",
+     "approx", "ca", "c", "min", "max", "avg", "est"}
 )  # fmt: skip
 
 # Words that label a numbered step: "Step 1. Remove the wheel" is one sentence (the number is
@@ -125,8 +132,12 @@ def _period_ends(text: str, run_start: int, following: str) -> bool:
     core = word.lstrip(_OPENERS)
     lower = core.lower()
     starts_sentence = following[:1].isupper() and following.lower() in _function_words()
-    if lower in TITLES or _DOTTED.match(core):
-        return starts_sentence and not following[:1].isdigit()
+    title = lower in TITLES and (core[:1].isupper() or lower in _LOWER_CASE_TITLES)
+    if title or lower in RUNNING or _DOTTED.match(core):
+        return starts_sentence
+    date = lower in DATES and core[:1].isupper()
+    if (lower in NUMBER_LABELS or date) and following[:1].isdigit():
+        return False
     if len(core) == 1 and core.isupper():  # an initial
         before = text[: run_start - len(word)].rstrip()
         previous = before.rsplit(None, 1)[-1] if before else ""
