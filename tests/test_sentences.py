@@ -15,7 +15,7 @@ from pathlib import Path
 import pytest
 
 from matcheck.language.analysis import analyze
-from matcheck.language.pipeline import nlp
+from matcheck.language.pipeline import mark_sentences, nlp
 from matcheck.language.segment import sentence_starts
 from matcheck.model import Block, BlockKind, Document, Location
 
@@ -32,7 +32,7 @@ def _split(text: str) -> list[str]:
 
 
 def _spacy_split(text: str) -> list[str]:
-    return [span.text.strip() for span in nlp()(text).sents]
+    return [span.text.strip() for span in mark_sentences(nlp()(text), text).sents]
 
 
 def test_golden_rules_pass_rate() -> None:

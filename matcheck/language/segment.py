@@ -16,7 +16,9 @@ quote or bracket, except:
   "Fig. 2", "no. 4", "approx. 5", "Jan. 5");
 - after a single capital initial: after a name ("Jonas E. Smith") only before a capitalised
   function word ("you and I. Did"), after a lower-case word always ("port B. Do");
-- after a step number ("Step 1. Remove the wheel"), see :data:`STEP_LABELS`;
+- after a step number whose label is capitalised and opens its sentence ("Step 1. Remove the
+  wheel", but not "note it beside step 20. If..." or "See Step 3. Then..."), see
+  :data:`STEP_LABELS`;
 - after a list marker ("1.", "2)", "a.") that opens a block, follows a colon, or belongs to a
   run of consecutive markers in the block ("1. The first item 2. The second item"); such a
   marker *starts* a sentence instead;
@@ -144,9 +146,12 @@ def _period_ends(text: str, run_start: int, following: str) -> bool:
         after_name = not previous or previous[:1].isupper()
         return starts_sentence if after_name else True
     if core.isdigit():
-        label = _previous_word(text, len(text[: run_start - len(word)].rstrip())).lower()
-        if label in STEP_LABELS:
-            return False
+        label_end = len(text[: run_start - len(word)].rstrip())
+        label = _previous_word(text, label_end)
+        before = text[: label_end - len(label)].rstrip()
+        opens = not before or before[-1] in ".!?:;)"
+        if label[:1].isupper() and label.lower() in STEP_LABELS and opens:
+            return False  # "Step 1. Remove the wheel"; not "beside step 20. If in doubt"
     return True
 
 
