@@ -203,3 +203,18 @@ def _read(path: Path) -> Document:
     from matcheck.api import read_version
 
     return read_version(Version(path.stem, (path,)))
+
+
+def test_numbers_do_not_make_arithmetic_unfamiliar() -> None:
+    # Words: Add, 12, and, 30, to, get, 42 | Then, take, away, 7, from, 42 | You, get, 35
+    # (16 words, 3 sentences). Every word is on the Dale–Chall list (checked below) and the 7
+    # numbers are not unfamiliar (Dale & Chall's counting; docs/references.md, "Counting
+    # rules"), so PDW = 0: score = 0.0496·16/3 + 3.6365 (1948 formula). Counting the numbers
+    # as unfamiliar would give PDW = 43.75 and a score above 10 ("16 and above").
+    from matcheck.language.wordlists import dale_chall_familiar
+
+    text = "Add 12 and 30 to get 42. Then take away 7 from 42. You get 35."
+    assert all(w.lower() in dale_chall_familiar() for w in text.split() if w[0].isalpha())
+    value = _profile(text)["dale_chall"]
+    assert value == pytest.approx(formulas.dale_chall(16, 3, 0))
+    assert formulas.dale_chall_grade_band(value or 0) == "4 and below"
