@@ -1,7 +1,7 @@
 """Counting rules beneath the readability formulas, checked by hand-counted texts.
 
 Each text below is counted by hand in its comments; the measured values must be the published
-formula of those counts (docs/references.md, "Counting rules"), so a change to the counting
+formula of those counts (docs/references.md §19), so a change to the counting
 (punctuation as ARI strokes, digits as Coleman–Liau letters, Gunning's raw three-syllable
 count) fails here. The comparisons check that writing an abbreviation, a numbered step or a
 list without full stops moves no readability verdict (issue "Sentences and counting rules").
@@ -50,7 +50,7 @@ def test_hand_counts() -> None:
 
 
 def test_ari_counts_strokes_not_punctuation() -> None:
-    # ARI = 4.71·strokes/W + 0.5·W/S − 21.43 (Senter & Smith 1967; docs/references.md §2).
+    # ARI = 4.71·strokes/W + 0.5·W/S − 21.43 (Senter & Smith 1967; docs/references.md §2.4).
     value = _profile(TEXT)["automated_readability"]
     assert value == pytest.approx(formulas.automated_readability(STROKES, WORDS, SENTENCES))
     with_punctuation = formulas.automated_readability(STROKES + 2, WORDS, SENTENCES)
@@ -58,14 +58,14 @@ def test_ari_counts_strokes_not_punctuation() -> None:
 
 
 def test_coleman_liau_counts_letters_not_digits() -> None:
-    # CLI = 0.0588·L − 0.296·S − 15.8 per 100 words (Coleman & Liau 1975; §2).
+    # CLI = 0.0588·L − 0.296·S − 15.8 per 100 words (Coleman & Liau 1975; docs/references.md §2.3).
     value = _profile(TEXT)["coleman_liau"]
     assert value == pytest.approx(formulas.coleman_liau(LETTERS, WORDS, SENTENCES))
     assert value != pytest.approx(formulas.coleman_liau(LETTERS + 3, WORDS, SENTENCES))
 
 
 def test_fog_uses_hard_words_not_raw_polysyllables() -> None:
-    # Fog = 0.4·(ASL + 100·hard/W) (Gunning 1952; §2), hard words as counted above.
+    # Fog = 0.4·(ASL + 100·hard/W) (Gunning 1952; docs/references.md §2.1), hard words as counted above.
     value = _profile(TEXT)["gunning_fog"]
     assert value == pytest.approx(formulas.gunning_fog(WORDS, SENTENCES, HARD))
     assert value != pytest.approx(formulas.gunning_fog(WORDS, SENTENCES, POLYSYLLABLES))
@@ -75,7 +75,7 @@ def test_fog_uses_hard_words_not_raw_polysyllables() -> None:
     ("word", "opening", "familiar"),
     [
         # Dale & Chall: names and numbers are not unfamiliar (SECONDARY / FROM MEMORY, see
-        # docs/references.md, "Counting rules"); abbreviations by their expansion (judgment).
+        # docs/references.md §19); abbreviations by their expansion (judgment).
         ("2024", False, True),
         ("3.5", False, True),
         ("Bristol", False, True),  # a name mid-sentence
@@ -208,8 +208,8 @@ def _read(path: Path) -> Document:
 def test_numbers_do_not_make_arithmetic_unfamiliar() -> None:
     # Words: Add, 12, and, 30, to, get, 42 | Then, take, away, 7, from, 42 | You, get, 35
     # (16 words, 3 sentences). Every word is on the Dale–Chall list (checked below) and the 7
-    # numbers are not unfamiliar (Dale & Chall's counting; docs/references.md, "Counting
-    # rules"), so PDW = 0: score = 0.0496·16/3 + 3.6365 (1948 formula). Counting the numbers
+    # numbers are not unfamiliar (Dale & Chall's counting; docs/references.md
+    # §19), so PDW = 0: score = 0.0496·16/3 + 3.6365 (1948 formula). Counting the numbers
     # as unfamiliar would give PDW = 43.75 and a score above 10 ("16 and above").
     from matcheck.language.wordlists import dale_chall_familiar
 

@@ -418,7 +418,7 @@ def test_agrees_with_textstat_on_ordinary_text() -> None:
     # textstat 0.7.8 uses the same method; on plain words (no hyphens or possessives, where we
     # deliberately differ) every count must agree, except where the CMU dictionary lists a
     # shorter pronunciation after the first: Flesch (1979, step 2) asks for the shorter one
-    # (docs/references.md, "Counting rules"). About 50 distinct words of our own text.
+    # (docs/references.md §19). About 50 distinct words of our own text.
     text = (
         "Grind the beans just before brewing, because ground coffee loses its aroma within "
         "minutes. Measure roughly sixty grams for every litre of water, heat the kettle until it "
@@ -455,7 +455,7 @@ def _cmu() -> dict[str, list[list[str]]]:
 )
 def test_fewer_syllables_of_two_pronunciations(word: str, shortest: int) -> None:
     # Flesch (1979), counting instructions, step 2: "If a word has two accepted
-    # pronunciations, use the one with fewer syllables" (docs/references.md, "Counting rules").
+    # pronunciations, use the one with fewer syllables" (docs/references.md §19).
     counts = [sum(phone[-1].isdigit() for phone in pron) for pron in _cmu()[word]]
     assert min(counts) == shortest
     assert count_syllables(word) == shortest
@@ -510,7 +510,7 @@ def test_fog_hard_words(word: str, sentence_initial: bool, hard: bool) -> None:
     ("word", "previous", "hard"),
     [
         # Gunning's exclusion names verb forms ("trespasses"); plural nouns stay hard.
-        # Part of speech from spaCy's English lemma index; docs/references.md, "Counting rules".
+        # Part of speech from spaCy's English lemma index; docs/references.md §19.
         ("trespasses", "he", False),  # Gunning's example, as a verb after a subject pronoun
         ("trespasses", "the", True),  # the plural noun
         ("reduces", "valve", False),  # "reduce" is a verb only in the index

@@ -1,7 +1,7 @@
 """Sentence boundaries against a published test set and the cases docs/measures.md lists.
 
 The published set is the English "Golden Rules" for sentence boundary disambiguation (Dias,
-Pragmatic Segmenter, MIT licence; docs/references.md, "Sentence boundaries"), stored as
+Pragmatic Segmenter, MIT licence; docs/references.md §18), stored as
 tests/data/golden_rules_en.json. The lesson cases (tests/data/lesson_sentences_en.json) are
 our own, one per rule of matcheck/language/segment.py.
 """

@@ -98,7 +98,7 @@ def is_dale_chall_familiar(word: str, *, opening: bool) -> bool:
 
     Familiar are: words on the list, and their regular inflections (through the lemma); names
     and numbers, which Dale and Chall do not count as unfamiliar (SECONDARY and FROM MEMORY,
-    docs/references.md, "Counting rules"); and abbreviations whose expansion is on the list
+    docs/references.md §19); and abbreviations whose expansion is on the list
     (judgment).
     """
     from matcheck.language.pipeline import lemma

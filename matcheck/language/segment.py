@@ -1,5 +1,7 @@
 """Sentence boundaries inside one block of text, by rule (docs/measures.md, "Sentences").
 
+The rules are checked against the English Golden Rules (docs/references.md §18).
+
 The rules decide, at every run of ``.``, ``!``, ``?`` or ``…`` followed by white space,
 whether a sentence ends there. They work on characters; :mod:`matcheck.language.pipeline`
 turns the offsets they return into sentence starts on the spaCy tokens, so the text is

@@ -10,7 +10,7 @@ Where we differ from textstat 0.7.8 (deliberately, to count what a reader hears)
 
 - of a word's pronunciations, the one with the fewest syllables counts ("every" = 2, not 3),
   as Flesch's counting instructions ask: "If a word has two accepted pronunciations, use the
-  one with fewer syllables" (Flesch 1979, step 2; docs/references.md, "Counting rules");
+  one with fewer syllables" (Flesch 1979, step 2; docs/references.md §19);
   textstat takes the dictionary's first pronunciation;
 
 - hyphenated compounds are the sum of their parts ("well-known" = 1 + 1); textstat deletes the
