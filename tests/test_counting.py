@@ -65,7 +65,8 @@ def test_coleman_liau_counts_letters_not_digits() -> None:
 
 
 def test_fog_uses_hard_words_not_raw_polysyllables() -> None:
-    # Fog = 0.4·(ASL + 100·hard/W) (Gunning 1952; docs/references.md §2.1), hard words as counted above.
+    # Fog = 0.4·(ASL + 100·hard/W) (Gunning 1952; docs/references.md §2.1), hard words as
+    # counted above.
     value = _profile(TEXT)["gunning_fog"]
     assert value == pytest.approx(formulas.gunning_fog(WORDS, SENTENCES, HARD))
     assert value != pytest.approx(formulas.gunning_fog(WORDS, SENTENCES, POLYSYLLABLES))
