@@ -34,16 +34,20 @@ def test_text_paragraphs_split_on_blank_lines(tmp_path: Path) -> None:
         encoding="utf-8",
     )
     document = read_text(path, LIMITS)
-    # Three paragraphs by construction; a whitespace-only line is blank too. No heading is
-    # guessed from a short first line.
-    assert [block.kind for block in document.blocks] == [BlockKind.PARAGRAPH] * 3
+    # Three blocks by construction; a whitespace-only line is blank too. The short first line
+    # without final punctuation, alone in its paragraph, is a title (readers/text.py rule).
+    assert [block.kind for block in document.blocks] == [
+        BlockKind.HEADING,
+        BlockKind.PARAGRAPH,
+        BlockKind.PARAGRAPH,
+    ]
     assert [block.text for block in document.blocks] == [
         "Setting up a home router",
         "Plug the router into the modem and switch it on.",
         "Open the admin page.",
     ]
     assert [block.location.line for block in document.blocks] == [1, 3, 7]
-    assert [block.location.paragraph for block in document.blocks] == [1, 2, 3]
+    assert [block.location.paragraph for block in document.blocks] == [None, 1, 2]
     assert document.format == "text"
     assert document.warnings == ()
 
@@ -128,3 +132,41 @@ def test_decode_broken_utf16_is_corrupt() -> None:
     with pytest.raises(CorruptFile, match="UTF-16") as caught:
         decode_lesson_text(b"\xff\xfe\x00\xd8a\x00", HERE)
     assert caught.value.path == "lesson.txt"
+
+
+def test_text_list_items_and_titles(tmp_path: Path) -> None:
+    # The rule of readers/text.py (docs/formats.md, "Plain text"): marker lines are list items
+    # without their marker, unmarked lines continue the item, a short unpunctuated line alone
+    # (or above a list) is a title. Expected blocks by construction.
+    path = tmp_path / "tyre.txt"
+    path.write_text(
+        "Fixing a flat tyre\n\nYou need a few tools:\n- tyre levers\n* a pump\n\nSteps\n"
+        "1. Remove the wheel\n2) Take out the tube\n   and find the hole\n  a. Patch it\n\n"
+        "The tyre should now hold air. Check it after a day\n",
+        encoding="utf-8",
+    )
+    blocks = read_text(path, LIMITS).blocks
+    assert [(b.kind, b.text, b.level, b.location.line) for b in blocks] == [
+        (BlockKind.HEADING, "Fixing a flat tyre", 1, 1),
+        (BlockKind.PARAGRAPH, "You need a few tools:", 0, 3),
+        (BlockKind.LIST_ITEM, "tyre levers", 1, 4),
+        (BlockKind.LIST_ITEM, "a pump", 1, 5),
+        (BlockKind.HEADING, "Steps", 1, 7),
+        (BlockKind.LIST_ITEM, "Remove the wheel", 1, 8),
+        (BlockKind.LIST_ITEM, "Take out the tube and find the hole", 1, 9),
+        (BlockKind.LIST_ITEM, "Patch it", 2, 11),
+        # two lines that do not start with a marker stay one paragraph, however they end
+        (BlockKind.PARAGRAPH, "The tyre should now hold air. Check it after a day", 0, 13),
+    ]
+    assert blocks[2].group == blocks[3].group != blocks[5].group
+    assert blocks[5].group == blocks[6].group == blocks[7].group
+
+
+def test_text_long_or_punctuated_line_is_no_title(tmp_path: Path) -> None:
+    path = tmp_path / "lines.txt"
+    path.write_text(
+        "Check the pressure.\n\nThis line has eleven words in it and no full stop at all\n",
+        encoding="utf-8",
+    )
+    kinds = [block.kind for block in read_text(path, LIMITS).blocks]
+    assert kinds == [BlockKind.PARAGRAPH, BlockKind.PARAGRAPH]

@@ -82,7 +82,7 @@ class Analysis:
 
 def analyze(document: Document) -> Analysis:
     """Run the language pass over every block of ``document``."""
-    from matcheck.language.pipeline import lemma, nlp, stop_words
+    from matcheck.language.pipeline import lemma, mark_sentences, nlp, stop_words
 
     stops = stop_words()
     pipeline = nlp()
@@ -93,7 +93,7 @@ def analyze(document: Document) -> Analysis:
         starts = [word.start for word in words]
         sentences = []
         cursor = 0
-        for span in doc.sents:
+        for span in mark_sentences(doc, block.text).sents:
             begin, finish = span.start_char, span.end_char
             first = cursor
             while cursor < len(words) and starts[cursor] < finish:

@@ -1,9 +1,12 @@
 """The spaCy pipeline, loaded once and lazily: tokens, sentences and lemmas, offline.
 
-matcheck always uses a *blank* English pipeline with the rule-based sentencizer, and lemmas
-from the English lookup table of ``spacy-lookups-data``. A trained pipeline would give
-slightly different sentences and lemmas on different machines depending on what happens to be
-installed; the blank one makes every result reproducible and needs no model download.
+matcheck always uses a *blank* English pipeline (the tokenizer alone), marks on its tokens
+the sentence starts found by :mod:`matcheck.language.segment` (:func:`mark_sentences`), and
+takes lemmas from the English lookup table of ``spacy-lookups-data`` corrected by
+:mod:`matcheck.language.lemmas`. A
+trained pipeline would give slightly different sentences and lemmas on different machines
+depending on what happens to be installed; the blank one makes every result reproducible
+and needs no model download.
 """
 
 from __future__ import annotations
@@ -13,15 +16,41 @@ from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     from spacy.language import Language
+    from spacy.tokens import Doc
+
+
+def mark_sentences(doc: Doc, text: str) -> Doc:
+    """Set the sentence starts of ``doc``, the tokens of ``text``, from the rules of
+    :mod:`matcheck.language.segment`, so that ``doc.sents`` gives them.
+
+    Boundaries fall after white space, where spaCy always starts a token; a boundary that
+    should fall inside a token moves to the next token start, so no text is tokenised twice.
+    ``text`` is passed in because rebuilding it from the tokens (``doc.text``) costs more than
+    tokenising it; the flags are written as one array because setting
+    ``Token.is_sent_start`` token by token cost ten times the tokenizer's own time.
+    """
+    import numpy
+    from spacy.attrs import IDX, SENT_START
+
+    from matcheck.language.segment import sentence_starts
+
+    if not len(doc):
+        return doc
+    offsets = doc.to_array(IDX)
+    first_tokens = numpy.searchsorted(offsets, sentence_starts(text), side="left")
+    flags = numpy.full(len(doc), -1, dtype=numpy.int64)  # -1: not a sentence start
+    flags[first_tokens[first_tokens < len(doc)]] = 1
+    flags[0] = 1
+    doc.from_array([SENT_START], flags.astype(numpy.uint64).reshape(-1, 1))  # type: ignore[arg-type]
+    return doc
 
 
 @cache
 def nlp() -> Language:
-    """The shared pipeline (tokenizer + sentencizer)."""
+    """The shared pipeline: spaCy's English tokenizer; :func:`mark_sentences` adds sentences."""
     import spacy
 
     pipeline = spacy.blank("en")
-    pipeline.add_pipe("sentencizer")
     # Blocks are processed one at a time; a PDF can still yield one very long block.
     pipeline.max_length = 50_000_000
     return pipeline
@@ -47,7 +76,15 @@ def _lemma_table() -> dict[str, str]:
 
 @cache
 def lemma(lower: str) -> str:
-    """The lemma of a lower-case word (the word itself when the table does not know it)."""
+    """The lemma of a lower-case word (the word itself when the table does not know it).
+
+    :func:`matcheck.language.lemmas.corrected` comes first (docs/measures.md, "Lemmas").
+    """
+    from matcheck.language.lemmas import corrected
+
+    fixed = corrected(lower)
+    if fixed is not None:
+        return fixed
     return _lemma_table().get(lower, lower)
 
 

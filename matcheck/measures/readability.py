@@ -146,45 +146,52 @@ class ProseCounts:
 
 
 def count_prose(analysis: Analysis) -> ProseCounts:
-    from matcheck.language.pipeline import lemma
+    from matcheck.language.counting import is_dale_chall_familiar, opens_unit
     from matcheck.language.syllables import count_syllables, is_fog_hard_word
-    from matcheck.language.wordlists import is_familiar
     from matcheck.language.words import letters, strokes
 
-    # The per-word counts depend only on the word's text and whether it opens its sentence;
-    # a lesson repeats its words, so each distinct one is counted once.
-    known: dict[tuple[str, bool], tuple[int, bool, int, int, bool]] = {}
+    # The per-word counts depend only on the word's text, whether it opens its unit and, for
+    # an -es word, the word before it; a lesson repeats its words, so each is counted once.
+    known: dict[tuple[str, bool, str], tuple[int, bool, int, int, bool]] = {}
 
-    def word_counts(text: str, lower: str, initial: bool) -> tuple[int, bool, int, int, bool]:
+    def word_counts(text: str, opening: bool, previous: str) -> tuple[int, bool, int, int, bool]:
         count = count_syllables(text)
         return (
             count,
-            is_fog_hard_word(text, count, sentence_initial=initial),
+            is_fog_hard_word(text, count, sentence_initial=opening, previous=previous),
             letters(text),
             strokes(text),
-            not is_familiar(lower, lemma(lower)),
+            not is_dale_chall_familiar(text, opening=opening),
         )
 
     syllables = polysyllables = hard = letter_count = stroke_count = long_words = rare = 0
     tokens: list[str] = []
     lengths: list[int] = []
-    for sentence in analysis.sentence_words():
-        lengths.append(len(sentence))
-        for position, word in enumerate(sentence):
-            lower = word.lower
-            key = (word.text, position == 0)
-            counts = known.get(key)
-            if counts is None:
-                counts = known[key] = word_counts(word.text, lower, position == 0)
-            count, is_hard, n_letters, n_strokes, unfamiliar = counts
-            syllables += count
-            polysyllables += count >= 3
-            hard += is_hard
-            letter_count += n_letters
-            stroke_count += n_strokes
-            long_words += n_letters > 6
-            rare += unfamiliar
-            tokens.append(lower)
+    for item in analysis.of(PROSE_KINDS):
+        for sentence in item.sentences:
+            if not sentence.word_count:
+                continue
+            words = item.words[sentence.first_word : sentence.end_word]
+            lengths.append(len(words))
+            previous_end = sentence.start
+            previous = ""
+            for position, word in enumerate(words):
+                opening = opens_unit(position, item.block.text[previous_end : word.start])
+                lower = word.lower
+                key = (word.text, opening, previous if lower.endswith("es") else "")
+                counts = known.get(key)
+                if counts is None:
+                    counts = known[key] = word_counts(*key)
+                count, is_hard, n_letters, n_strokes, unfamiliar = counts
+                syllables += count
+                polysyllables += count >= 3
+                hard += is_hard
+                letter_count += n_letters
+                stroke_count += n_strokes
+                long_words += n_letters > 6
+                rare += unfamiliar
+                tokens.append(lower)
+                previous_end, previous = word.end, lower
     return ProseCounts(
         words=len(tokens),
         sentences=len(lengths),

@@ -97,10 +97,15 @@ def power(design: Design, term: Term, effect: float, units: float) -> float:
     if design.kind is Kind.K_GROUP and design.pretest_r is None and not design.one_sided:
         from statsmodels.stats.power import FTestAnovaPower
 
-        value = FTestAnovaPower().power(
-            effect_size=effect, nobs=total, alpha=design.alpha, k_groups=design.cells
+        value = float(
+            FTestAnovaPower().power(
+                effect_size=effect, nobs=total, alpha=design.alpha, k_groups=design.cells
+            )
         )
-        return float(value)
+        if not math.isnan(value):
+            return value
+        # scipy's noncentral F (behind statsmodels) returns NaN once its series underflows at
+        # a very large noncentrality; the generic path below handles that case.
     covariate = 0 if design.pretest_r is None else 1
     df_error = total - design.cells - covariate
     noncentrality = effect**2 * total / share
@@ -114,7 +119,15 @@ def _f_power(noncentrality: float, df_num: float, df_den: float, alpha: float) -
     from scipy.stats import ncf
 
     critical = central_f.isf(alpha, df_num, df_den)
-    return float(ncf.sf(critical, df_num, df_den, noncentrality))
+    value = float(ncf.sf(critical, df_num, df_den, noncentrality))
+    if math.isnan(value):
+        # The series underflows only far out in the tail: with the noncentral F's mean
+        # ((df_num + λ) / df_num · df_den / (df_den − 2)) far above the critical value, power
+        # is 1 to double precision (found by the property test in tests/test_power.py).
+        if noncentrality > 10 * df_num * critical:
+            return 1.0
+        raise ArithmeticError(f"noncentral F power is undefined at λ = {noncentrality:g}")
+    return value
 
 
 def _t_power(ncp: float, df: float, alpha: float, one_sided: bool) -> float:
