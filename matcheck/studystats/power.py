@@ -1,8 +1,8 @@
 """Achieved power of a two-sample t-test, for the null-result diagnosis.
 
-statsmodels' ``TTestIndPower`` (docs/references.md §6) gives the power of the two-sided
-two-sample t-test for a standardised effect d, n₁ learners in the first group and
-``ratio = n₂/n₁``. Imported lazily: statsmodels is slow to import.
+The same computation as ``matcheck power`` for two independent groups (matcheck/power/:
+statsmodels' ``TTestIndPower`` with unequal allocation, docs/references.md §6), so the
+diagnosis and the planning agree to the last digit.
 """
 
 from __future__ import annotations
@@ -13,9 +13,8 @@ TARGET_POWER = 0.80
 
 def achieved_power(effect: float, n1: int, n2: int, alpha: float = 0.05) -> float:
     """Power to detect |effect| (Cohen's d) with n1 + n2 learners, two-sided at ``alpha``."""
-    from statsmodels.stats.power import TTestIndPower
+    from matcheck.power import solve
+    from matcheck.power.designs import Design, Kind
 
-    power = TTestIndPower().power(
-        effect_size=abs(effect), nobs1=n1, alpha=alpha, ratio=n2 / n1, alternative="two-sided"
-    )
-    return float(power)
+    design = Design(Kind.TWO_GROUP, (2,), ("condition",), alpha=alpha, ratio=n2 / n1)
+    return solve.power(design, design.terms()[0], abs(effect), n1)
