@@ -23,6 +23,8 @@ class BlockKind(StrEnum):
     TABLE_CELL = "table_cell"
     CAPTION = "caption"
     FOOTNOTE = "footnote"
+    # One line of a code block; ``group`` identifies the code block.
+    CODE = "code"
 
 
 class Emphasis(StrEnum):
@@ -44,6 +46,8 @@ class Capability(StrEnum):
     EMPHASIS = "emphasis"
     UNDERLINE = "underline"
     HIGHLIGHT = "highlight"
+    CODE = "code"
+    ALT_TEXT = "alt_text"
 
 
 @dataclass(frozen=True, slots=True)
@@ -95,9 +99,10 @@ class Location:
 class Block:
     """A unit of lesson text.
 
-    ``level`` is the heading level (1 = top) for headings and the nesting depth (1 = top) for
-    list items; 0 otherwise. ``group`` identifies the list or table a list item or table cell
-    belongs to (equal numbers: same list or table), so lists and tables can be counted.
+    ``level`` is the heading's rank in the document's outline (1 = top) for headings and the
+    nesting depth (1 = top) for list items; 0 otherwise. ``group`` identifies the list, table or
+    code block a list item, table cell or code line belongs to (equal numbers: same list, table
+    or code block), so they can be counted.
     """
 
     kind: BlockKind

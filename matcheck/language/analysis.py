@@ -5,12 +5,16 @@ spaCy runs exactly once per document.
 
 Which blocks count for what (documented in docs/measures.md):
 
-- *text* blocks (everything but captions) count towards length; caption text belongs to the
-  figures it describes and is measured in the ``figures`` group;
+- *text* blocks (everything but captions and code) count towards length; caption text belongs
+  to the figures it describes and is measured in the ``figures`` group; code lines are
+  measured on their own (``code_blocks``, ``code_lines``) so that a listing does not move
+  words, sentences or any readability formula;
 - *prose* blocks (paragraphs, list items, footnotes) are the running text that readability
   formulas were made for; headings and table cells are not sentences;
 - *passage* blocks (prose blocks and table cells) are what the content comparison reads;
-  :func:`matcheck.measures.key_terms.passages` makes each whole table one passage.
+  :func:`matcheck.measures.key_terms.passages` makes each whole table one passage. Code blocks
+  are passages of the content comparison too (a changed code line is a content difference),
+  but not of the key terms.
 
 A block boundary always ends a sentence: a list item without a full stop is one sentence.
 """
@@ -22,7 +26,7 @@ from dataclasses import dataclass
 from matcheck.language.words import Word, iter_words
 from matcheck.model import Block, BlockKind, Document
 
-TEXT_KINDS = frozenset(BlockKind) - {BlockKind.CAPTION}
+TEXT_KINDS = frozenset(BlockKind) - {BlockKind.CAPTION, BlockKind.CODE}
 PROSE_KINDS = frozenset({BlockKind.PARAGRAPH, BlockKind.LIST_ITEM, BlockKind.FOOTNOTE})
 PASSAGE_KINDS = PROSE_KINDS | {BlockKind.TABLE_CELL}
 

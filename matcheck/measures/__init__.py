@@ -11,6 +11,7 @@ from dataclasses import replace
 
 from matcheck.language.analysis import Analysis
 from matcheck.measures import (
+    code,
     comparisons,
     figures,
     key_terms,
@@ -28,6 +29,7 @@ registry.register_measures(readability.measure_readability, readability.SPECS)
 registry.register_measures(key_terms.measure_key_terms, key_terms.SPECS)
 registry.register_measures(figures.measure_figures, figures.SPECS)
 registry.register_measures(structure.measure_structure, structure.SPECS)
+registry.register_measures(code.measure_code, code.SPECS)
 registry.register_measures(signaling.measure_signaling, signaling.SPECS)
 registry.register_specs(comparisons.SPECS)
 

@@ -38,6 +38,9 @@ class Role(StrEnum):
 
     MEASURED = "measured"  # one value per version, compared between versions
     LISTING = "listing"  # a list shown in profiles (key terms); not compared as a number
+    # A value shown in profiles as information, never compared (pixel counts: exporters
+    # downsample pictures, so the same figure has fewer pixels in its PDF).
+    INFORMATION = "information"
     PAIRWISE = "pairwise"  # found by comparing two versions (passages removed): from zero
     ITEM = "item"  # one finding per subject (a post-test item), judged from zero
 
@@ -97,7 +100,7 @@ class MeasureSpec:
 
     @property
     def compared(self) -> bool:
-        return self.role is not Role.LISTING
+        return self.role not in (Role.LISTING, Role.INFORMATION)
 
     @property
     def from_zero(self) -> bool:

@@ -7,8 +7,16 @@ from collections.abc import Iterator
 from matcheck.findings import Tolerance
 from matcheck.language.analysis import Analysis
 from matcheck.language.words import iter_words
-from matcheck.measures.base import EXACT, JUDGMENT, Group, Measurement, MeasureSpec, causes
-from matcheck.model import BlockKind
+from matcheck.measures.base import (
+    EXACT,
+    JUDGMENT,
+    Group,
+    Measurement,
+    MeasureSpec,
+    Role,
+    causes,
+)
+from matcheck.model import BlockKind, Capability
 from matcheck.settings import Settings
 
 F = Group.FIGURES
@@ -26,10 +34,9 @@ PIXEL_AREA = MeasureSpec(
     "figure_pixel_area",
     F,
     "megapixels",
-    "Total pixel area of the readable pictures",
-    Tolerance(relative=0.10, reason=f"10%; {JUDGMENT}"),
-    follows=causes("figures"),
-    implied_by="figures",
+    "Total pixel area of the readable pictures (information; size is compared by display area)",
+    Tolerance(reason="information only, not compared"),
+    role=Role.INFORMATION,
 )
 DISPLAY_AREA = MeasureSpec(
     "figure_display_area",
@@ -71,6 +78,7 @@ NO_ALT = MeasureSpec(
     Tolerance(reason=EXACT),
     follows=causes("figures"),
     implied_by="figures",
+    needs=Capability.ALT_TEXT,
 )
 UNREADABLE = MeasureSpec(
     "figures_unreadable",

@@ -58,8 +58,13 @@ def passage_terms(item: BlockAnalysis) -> list[str]:
     return terms
 
 
-def passages(analysis: Analysis) -> tuple[Passage, ...]:
-    """The passages of a version in reading order (prose blocks and whole tables)."""
+def passages(analysis: Analysis, *, code: bool = True) -> tuple[Passage, ...]:
+    """The passages of a version in reading order (prose blocks, whole tables, code blocks).
+
+    A code block is one passage, like a table; ``code=False`` leaves code out (key terms are
+    what the prose is about).
+    """
+    kinds = PASSAGE_KINDS | {BlockKind.CODE} if code else PASSAGE_KINDS
     units: list[Passage] = []
     table: list[BlockAnalysis] = []
 
@@ -75,9 +80,10 @@ def passages(analysis: Analysis) -> tuple[Passage, ...]:
             )
             table.clear()
 
-    for item in analysis.of(PASSAGE_KINDS):
-        if item.block.kind is BlockKind.TABLE_CELL:
-            if table and table[0].block.group != item.block.group:
+    for item in analysis.of(kinds):
+        if item.block.kind in (BlockKind.TABLE_CELL, BlockKind.CODE):
+            first = table[0].block if table else None
+            if first is not None and (first.group, first.kind) != (item.block.group, item.block.kind):
                 close_table()
             table.append(item)
             continue
@@ -133,7 +139,7 @@ def top_terms(weights: dict[str, float], count: int) -> list[tuple[str, float]]:
 
 
 def measure_key_terms(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
-    units = passages(analysis)
+    units = passages(analysis, code=False)
     term_lists = [list(unit.terms) for unit in units]
     if not any(term_lists):
         yield Measurement(KEY_TERMS, 0.0, note="no content words")

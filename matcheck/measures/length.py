@@ -75,7 +75,7 @@ def measure_length(analysis: Analysis, settings: Settings) -> Iterator[Measureme
     characters = sum(
         len(item.block.text) - item.block.text.count(" ")
         for item in analysis.blocks
-        if item.block.kind is not BlockKind.CAPTION
+        if item.block.kind not in (BlockKind.CAPTION, BlockKind.CODE)
     )
     yield Measurement(CHARACTERS, float(characters))
     yield Measurement(

@@ -52,7 +52,7 @@ def specs() -> Iterator[MeasureSpec]:
 
 def compared() -> dict[str, MeasureSpec]:
     """Every dimension a comparison can report on, by id."""
-    return {s.id: s for s in specs() if s.role is not Role.LISTING}
+    return {s.id: s for s in specs() if s.compared}
 
 
 def implied_by(measure_id: str) -> tuple[str, ...]:

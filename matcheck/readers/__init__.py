@@ -83,7 +83,8 @@ register_reader(
         "text",
         _text,
         frozenset(Capability),
-        "plain text has no markup: no headings, lists, tables or emphasis to count",
+        "plain text has no markup: no headings, lists, tables, code or emphasis to count, "
+        "and no pictures to describe",
     )
 )
 
@@ -144,7 +145,8 @@ def _read(path: Path, limits: ReadLimits) -> Document:
         document = reader.read(path, limits)
     document = _flag_huge_images(document, limits)
     if reader.cannot_show:
-        document = replace(document, cannot_show=reader.cannot_show)
+        # A reader may add what one file cannot show (an untagged PDF has no alt text).
+        document = replace(document, cannot_show=reader.cannot_show | document.cannot_show)
     expected = EXTENSIONS.get(path.suffix.lower())
     if expected is not None and expected != fmt and {expected, fmt} != {"markdown", "text"}:
         document = replace(

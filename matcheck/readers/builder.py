@@ -4,20 +4,26 @@ Every reader feeds text as *runs* (a piece of text plus the emphasis it carries)
 :class:`DocumentBuilder`. The builder owns what must be the same for every format, so that the
 same lesson read from DOCX, PDF or Markdown comes out the same:
 
-- Unicode and white space are normalised (NFC, non-breaking and other spaces become one plain
-  space, soft hyphens and zero-width characters go, runs of white space collapse to one);
+- Unicode and white space are normalised (:func:`matcheck.textnorm.fold`: NFKC, quotes,
+  apostrophes and dashes folded to ASCII, soft hyphens and zero-width characters gone; then
+  runs of white space collapse to one plain space);
 - emphasis spans are recomputed on the normalised text;
 - empty blocks are dropped;
-- block indices, paragraph ordinals and the enclosing section heading are assigned.
+- block indices, paragraph ordinals and the enclosing section heading are assigned;
+- heading levels become ranks in the document's outline: the distinct levels a document uses,
+  shallowest first, are ranks 1, 2, 3, ... (a Word Title above Heading 1, read as level 0, is
+  rank 1), so the same outline gives the same levels in every format.
 """
 
 from __future__ import annotations
 
 import unicodedata
 from collections.abc import Iterable
+from dataclasses import replace
 from typing import TYPE_CHECKING
 
 from matcheck.model import Block, BlockKind, Document, Emphasis, Figure, Location, Span
+from matcheck.textnorm import fold
 
 if TYPE_CHECKING:
     from matcheck.readers.wordlimit import WordBudget
@@ -26,18 +32,6 @@ Run = tuple[str, frozenset[Emphasis]]
 
 NO_EMPHASIS: frozenset[Emphasis] = frozenset()
 
-# Characters that are not content: soft hyphen, zero-width space/joiners, word joiner, BOM.
-_INVISIBLE = dict.fromkeys(map(ord, "\u00ad\u200b\u200c\u200d\u2060\ufeff"))
-# Typographic ligatures that PDF text layers often keep as one code point.
-_LIGATURES = {
-    "\ufb00": "ff",
-    "\ufb01": "fi",
-    "\ufb02": "fl",
-    "\ufb03": "ffi",
-    "\ufb04": "ffl",
-    "\ufb05": "st",
-    "\ufb06": "st",
-}
 # Distinct warnings kept per document; a hostile file (100,000 broken image links) would
 # otherwise bury the report in them. The rest are counted in one last warning.
 MAX_WARNINGS = 50
@@ -54,9 +48,7 @@ def normalize_runs(runs: Iterable[Run]) -> tuple[str, tuple[Span, ...]]:
     kinds: list[frozenset[Emphasis]] = []
     pending_space = False
     for raw, emphasis in runs:
-        text = unicodedata.normalize("NFC", raw).translate(_INVISIBLE)
-        for char in text:
-            char = _LIGATURES.get(char, char)
+        for char in fold(raw):
             if char.isspace() or unicodedata.category(char) == "Zs":
                 pending_space = bool(chars)
                 continue
@@ -65,9 +57,8 @@ def normalize_runs(runs: Iterable[Run]) -> tuple[str, tuple[Span, ...]]:
                 # A space between two emphasised pieces of one kind keeps the emphasis whole.
                 kinds.append(kinds[-1] & emphasis if kinds else NO_EMPHASIS)
                 pending_space = False
-            for piece in char:
-                chars.append(piece)
-                kinds.append(emphasis)
+            chars.append(char)
+            kinds.append(emphasis)
     return "".join(chars), _spans(kinds)
 
 
@@ -222,15 +213,33 @@ class DocumentBuilder:
             self._excluded.append(what)
 
     def build(self) -> Document:
+        blocks = _outline_ranks(self._blocks)
         warnings = tuple(self._warnings)
         if self._more_warnings:
             warnings += (f"and {self._more_warnings} more warnings not shown",)
         return Document(
             path=self.path,
             format=self.format,
-            blocks=tuple(self._blocks),
+            blocks=blocks,
             figures=tuple(self._figures),
             pages=self.pages,
             excluded=tuple(self._excluded),
             warnings=warnings,
         )
+
+
+def _outline_ranks(blocks: list[Block]) -> tuple[Block, ...]:
+    """Heading levels replaced by their rank among the levels the document uses.
+
+    A Word lesson with Title, Heading 1 and Heading 2, a Markdown one with ``#``, ``##`` and
+    ``###`` and a PDF with three heading sizes all have ranks 1, 2 and 3. A skipped level (a
+    ``###`` straight under ``#``) closes up, as it does in any outline view.
+    """
+    levels = sorted({block.level for block in blocks if block.kind is BlockKind.HEADING})
+    if levels == list(range(1, len(levels) + 1)):
+        return tuple(blocks)
+    rank = {level: index for index, level in enumerate(levels, start=1)}
+    return tuple(
+        replace(block, level=rank[block.level]) if block.kind is BlockKind.HEADING else block
+        for block in blocks
+    )

@@ -13,6 +13,7 @@ from typing import TYPE_CHECKING
 
 from matcheck.model import BlockKind, Emphasis
 from matcheck.readers.builder import NO_EMPHASIS, DocumentBuilder, Run, normalize_text
+from matcheck.readers.docx_code import CodeFonts
 from matcheck.readers.docx_figures import FigureInfo, drawing_figures, vml_figures
 from matcheck.readers.docx_styles import ListInfo, StyleSheet
 from matcheck.readers.docx_xml import (
@@ -41,7 +42,9 @@ _INLINE_WRAPPERS = {
     w(name)
     for name in ("hyperlink", "ins", "moveTo", "fldSimple", "smartTag", "customXml", "dir", "bdo")
 }
-_SPACES = {w("tab"), w("ptab"), w("br"), w("cr")}
+_SPACES = {w("tab"), w("ptab")}
+# A line break: a space in prose, the end of a line in code.
+_BREAKS = {w("br"), w("cr")}
 
 
 @dataclass
@@ -49,6 +52,9 @@ class _Content:
     runs: list[Run] = field(default_factory=list)
     figures: list[FigureInfo] = field(default_factory=list)
     boxes: list[Element] = field(default_factory=list)
+    # Visible characters, and those of them set in a monospace font (code).
+    characters: int = 0
+    monospace: int = 0
 
     @property
     def text(self) -> str:
@@ -68,11 +74,14 @@ class StoryReader:
     def __init__(self, builder: DocumentBuilder, styles: StyleSheet, part: Part) -> None:
         self.builder = builder
         self.styles = styles
+        self.code = CodeFonts(styles)
         self.part = part
         # One entry per open complex field: True while in its instructions (not displayed).
         self._fields: list[bool] = []
         self._list: _OpenList | None = None
         self._after_picture = False
+        # The group of the code block being read (consecutive code paragraphs are one block).
+        self._code: int | None = None
 
     def read_story(self, container: Element) -> None:
         saved = self._fields, self._list, self._after_picture
@@ -82,7 +91,7 @@ class StoryReader:
                 self._paragraph(element)
             elif element.tag == w("tbl"):
                 self._table(element)
-                self._list, self._after_picture = None, False
+                self._list, self._after_picture, self._code = None, False, None
             else:
                 self.builder.warn("imported content (altChunk) in the file was not read")
         self._fields, self._list, self._after_picture = saved
@@ -98,7 +107,10 @@ class StoryReader:
         content = _Content()
         self._inline(paragraph, content, style_id)
         text = content.text
-        if text:
+        if text and self._is_code(paragraph, style_id, content):
+            self._code_lines(content)
+        elif text:
+            self._code = None
             kind, level, group = self._classify(paragraph, style_id, text)
             block = self.builder.add_block(kind, content.runs, level=level, group=group)
             if block is not None and kind is BlockKind.CAPTION:
@@ -109,14 +121,36 @@ class StoryReader:
         for box in content.boxes:
             self.read_story(box)
 
+    def _is_code(self, paragraph: Element, style_id: str | None, content: _Content) -> bool:
+        """A paragraph in a code style, or with every visible character monospace.
+
+        Headings and list items stay what they are, whatever their font.
+        """
+        if self.styles.heading_level(paragraph, style_id) is not None:
+            return False
+        if self.code.is_code_style(style_id):
+            return True
+        return content.characters > 0 and content.monospace == content.characters
+
+    def _code_lines(self, content: _Content) -> None:
+        """One code block per run of code paragraphs; one CODE block per line (``w:br``)."""
+        if self._code is None:
+            self._code = self.builder.new_group()
+        self._list = None
+        raw = "".join(text for text, _ in content.runs)
+        for line in raw.split("\n"):
+            # Highlighting inside code (bold keywords) is not emphasis: the line is plain.
+            self.builder.add_block(BlockKind.CODE, line, group=self._code)
+        self._add_figures(content.figures)
+
     def _classify(
         self, paragraph: Element, style_id: str | None, text: str
     ) -> tuple[BlockKind, int, int | None]:
         heading = self.styles.heading_level(paragraph, style_id)
-        info = None if heading else self.styles.list_info(paragraph, style_id)
+        info = None if heading is not None else self.styles.list_info(paragraph, style_id)
         if info is None:
             self._list = None  # a paragraph between list items ends the list
-        if heading:
+        if heading is not None:
             return BlockKind.HEADING, heading, None
         if self.styles.is_caption(style_id) or (self._after_picture and _FIGURE_LABEL.match(text)):
             return BlockKind.CAPTION, 0, None
@@ -160,8 +194,9 @@ class StoryReader:
         for child in element.iterchildren():
             tag = child.tag
             if tag == w("r"):
-                emphasis, hidden = self.styles.emphasis(child.find(w("rPr")), style_id)
-                self._run(child, content, emphasis, hidden)
+                rpr = child.find(w("rPr"))
+                emphasis, hidden = self.styles.emphasis(rpr, style_id)
+                self._run(child, content, emphasis, hidden, self.code.monospace(rpr, style_id))
             elif tag in _INLINE_WRAPPERS:
                 self._inline(child, content, style_id)
             elif tag == w("sdt"):
@@ -178,7 +213,12 @@ class StoryReader:
             # w:del and w:moveFrom (deleted text), bookmarks, proofing marks: nothing shown.
 
     def _run(
-        self, run: Element, content: _Content, emphasis: frozenset[Emphasis], hidden: bool
+        self,
+        run: Element,
+        content: _Content,
+        emphasis: frozenset[Emphasis],
+        hidden: bool,
+        monospace: bool = False,
     ) -> None:
         for child in run.iterchildren():
             tag = child.tag
@@ -187,7 +227,13 @@ class StoryReader:
             elif hidden or any(self._fields):
                 continue
             elif tag == w("t"):
-                content.runs.append((child.text or "", emphasis))
+                text = child.text or ""
+                content.runs.append((text, emphasis))
+                visible = len(text) - text.count(" ")
+                content.characters += visible
+                content.monospace += visible if monospace else 0
+            elif tag in _BREAKS:
+                content.runs.append(("\n", emphasis))
             elif tag in _SPACES:
                 content.runs.append((" ", emphasis))
             elif tag == w("noBreakHyphen"):
@@ -201,7 +247,7 @@ class StoryReader:
             elif tag == MC_ALTERNATE:
                 branch = alternate(child)
                 if branch is not None:
-                    self._run(branch, content, emphasis, hidden)
+                    self._run(branch, content, emphasis, hidden, monospace)
 
     def _field(self, kind: str | None) -> None:
         # Complex fields (ECMA-376 17.16.18): begin, instructions, separate, result, end.

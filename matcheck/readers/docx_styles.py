@@ -108,7 +108,7 @@ class StyleSheet:
         return (val(style.find(w("name"))) or "").strip().lower()
 
     def heading_level(self, paragraph: Element, style_id: str | None) -> int | None:
-        """Heading level 1..6, or ``None`` for a paragraph that is not a heading.
+        """Heading level 0..6 (0: Title), or ``None`` for a paragraph that is not a heading.
 
         A direct outline level wins (Word lets it override the style); otherwise the nearest
         style that is named "Heading N"/"Title" or sets an outline level decides.
@@ -122,7 +122,8 @@ class StyleSheet:
             if match:
                 return min(int(match.group(1)), _MAX_HEADING)
             if name == "title":
-                return 1
+                # Above Heading 1 in the outline; the builder turns levels into ranks.
+                return 0
             level = val(style.find(f"{w('pPr')}/{w('outlineLvl')}"))
             if level is not None:
                 return _outline(level)

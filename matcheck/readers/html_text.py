@@ -72,8 +72,14 @@ class OpenEmphases:
 
 def html_image(attrs: dict[str, str], line: int | None) -> ImageRef:
     """The reference an ``<img>`` makes, from its attributes."""
-    # HTML width/height are in CSS px; a display size in cm would need a DPI we do not know.
-    return ImageRef(attrs.get("src", ""), attrs.get("alt", ""), line, attrs.get("title", ""))
+    # A stated width and height (attributes in CSS px, or a style in any absolute unit) is a
+    # display size: CSS fixes 96 px to the inch (docs/references.md §SVG).
+    from matcheck.readers.markdown_meta import html_display_size
+
+    width, height = html_display_size(attrs)
+    return ImageRef(
+        attrs.get("src", ""), attrs.get("alt", ""), line, attrs.get("title", ""), width, height
+    )
 
 
 # -- inline fragments ----------------------------------------------------------------------------

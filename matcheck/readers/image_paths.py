@@ -36,6 +36,9 @@ class ImageRef:
     alt: str
     line: int | None
     title: str = ""
+    # Display size stated by an HTML ``<img>`` (width/height attributes or style), in cm.
+    width_cm: float | None = None
+    height_cm: float | None = None
 
 
 class LocatedImage(NamedTuple):

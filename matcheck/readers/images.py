@@ -21,14 +21,26 @@ _HEADER_ERRORS = (OSError, ValueError, SyntaxError, IndexError, TypeError, struc
 
 
 def image_size(source: bytes | Path) -> tuple[int, int] | None:
-    """Return ``(width_px, height_px)`` from the image header, or ``None`` if unidentifiable."""
+    """Return ``(width_px, height_px)`` from the image header, or ``None`` if unidentifiable.
+
+    An SVG gives the CSS size its root element states (:mod:`matcheck.readers.svg`).
+    """
+    from matcheck.readers.svg import looks_like_svg, svg_size
+
     try:
         if isinstance(source, bytes):
-            return _size(io.BytesIO(source))
-        with source.open("rb") as stream:
-            return _size(stream)
+            head = source[: 64 * 1024]
+            size = _size(io.BytesIO(source))
+        else:
+            with source.open("rb") as stream:
+                head = stream.read(64 * 1024)
+                stream.seek(0)
+                size = _size(stream)
     except OSError:
         return None
+    if size is None and looks_like_svg(head):
+        return svg_size(head)
+    return size
 
 
 def _size(stream: IO[bytes]) -> tuple[int, int] | None:

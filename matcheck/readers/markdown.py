@@ -6,7 +6,9 @@ The token stream of markdown-it (CommonMark, plus tables, YAML front matter, foo
 small ``==highlight==`` rule) is walked once, in document order:
 
 - headings, paragraphs, list items, table cells and footnotes become blocks;
-- code blocks (fenced or indented) are not prose: they are left out and counted;
+- code blocks (fenced or indented) become code blocks, one CODE block per non-empty line;
+- a ``title:`` in the YAML front matter is the document's title, above every ``#`` heading
+  (as pandoc and static-site generators show it);
 - raw HTML is reduced to its text, and HTML emphasis tags (``<u>``, ``<mark>``, ...) count
   (:mod:`matcheck.readers.html_text`);
 - every image becomes a figure. Local images are measured from their header only; remote
@@ -37,6 +39,7 @@ from matcheck.readers.html_text import (
     read_html_inline,
 )
 from matcheck.readers.image_paths import ImageRef, ImageSandbox
+from matcheck.readers.markdown_meta import front_matter_title
 
 # markdown-it token pairs that carry emphasis (``mark`` comes from the rule below).
 _TOKEN_EMPHASIS = {"strong": Emphasis.BOLD, "em": Emphasis.ITALIC, "mark": Emphasis.HIGHLIGHT}
@@ -136,7 +139,6 @@ class _Walker:
         self.table: int | None = None
         self.footnote: list[Run] | None = None
         self.footnote_line: int | None = None
-        self.code_blocks = 0
         self.consumed: set[int] = set()  # inline tokens already used as captions
 
     def walk(self, tokens: Sequence[Token]) -> None:
@@ -152,7 +154,9 @@ class _Walker:
             elif kind == "table_close":
                 self.table = None
             elif kind in ("fence", "code_block"):
-                self.code_blocks += 1
+                self._code(token)
+            elif kind == "front_matter":
+                self._front_matter(token)
             elif kind == "html_block":
                 self._html_block(token)
             elif kind == "footnote_open":
@@ -162,11 +166,23 @@ class _Walker:
                 self.footnote = None
             elif kind == "inline" and index not in self.consumed:
                 self._inline_block(tokens, index)
-        if self.code_blocks:
-            plural = "s" if self.code_blocks != 1 else ""
-            self.builder.exclude(f"{self.code_blocks} code block{plural}")
 
     # -- blocks ------------------------------------------------------------------------------
+
+    def _code(self, token: Token) -> None:
+        """A fenced or indented code block: one CODE block per line, one group per block."""
+        group = self.builder.new_group()
+        # A fence's content starts on the line after the opening fence.
+        first = token.map[0] + 1 + (token.type == "fence") if token.map else None
+        for offset, line in enumerate(token.content.splitlines()):
+            number = None if first is None else first + offset
+            self.builder.add_block(BlockKind.CODE, line, group=group, line=number)
+
+    def _front_matter(self, token: Token) -> None:
+        """The front matter's ``title:`` as a heading above the document's ``#`` headings."""
+        title = front_matter_title(token.content)
+        if title:
+            self.builder.add_block(BlockKind.HEADING, title, level=0, line=1)
 
     def _inline_block(self, tokens: Sequence[Token], index: int) -> None:
         token = tokens[index]
@@ -263,6 +279,8 @@ class _Walker:
             found.source,
             width_px=found.size[0] if found.size else None,
             height_px=found.size[1] if found.size else None,
+            display_width_cm=image.width_cm,
+            display_height_cm=image.height_cm,
             alt_text=image.alt,
             caption=caption,
             remote=found.remote,

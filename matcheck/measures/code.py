@@ -1,0 +1,40 @@
+"""Code: listings measured on their own, so they never move the prose measures."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+from matcheck.language.analysis import Analysis
+from matcheck.findings import Tolerance
+from matcheck.measures.base import EXACT, Group, Measurement, MeasureSpec, causes
+from matcheck.model import BlockKind, Capability
+from matcheck.settings import Settings
+
+CODE_BLOCKS = MeasureSpec(
+    "code_blocks",
+    Group.STRUCTURE,
+    "blocks",
+    "Code blocks (fenced or indented, code styles, monospace paragraphs)",
+    Tolerance(reason=EXACT),
+    needs=Capability.CODE,
+    label="Code blocks",
+    phrase="the number of code blocks",
+)
+CODE_LINES = MeasureSpec(
+    "code_lines",
+    Group.STRUCTURE,
+    "lines",
+    "Non-empty lines of code",
+    Tolerance(reason=EXACT),
+    follows=causes("code_blocks"),
+    needs=Capability.CODE,
+    label="Code lines",
+    phrase="the number of code lines",
+)
+SPECS = (CODE_BLOCKS, CODE_LINES)
+
+
+def measure_code(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
+    lines = analysis.document.blocks_of(BlockKind.CODE)
+    yield Measurement(CODE_BLOCKS, float(len({line.group for line in lines})))
+    yield Measurement(CODE_LINES, float(len(lines)))
