@@ -44,7 +44,7 @@ from typing import TYPE_CHECKING, NoReturn
 
 from matcheck.errors import CorruptFile, EncryptedFile, LimitExceeded, NoText
 from matcheck.limits import ReadLimits
-from matcheck.model import Document
+from matcheck.model import BlockKind, Document
 from matcheck.readers.builder import DocumentBuilder
 from matcheck.readers.wordlimit import WordBudget
 
@@ -244,6 +244,11 @@ def _emit(builder: DocumentBuilder, pages: list[PageContent], pieces: list[Piece
         for piece in by_page.get(content.number, []):
             while order and content.images[order[0]].center >= piece.block.top:
                 figure(order.pop(0))
+            if piece.kind is BlockKind.CODE:
+                code = builder.new_group()
+                for line in piece.block.lines:
+                    builder.add_block(BlockKind.CODE, line.text, group=code, page=piece.page)
+                continue
             group = None
             if piece.group is not None:
                 group = groups.setdefault(piece.group, builder.new_group())

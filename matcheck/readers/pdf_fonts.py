@@ -12,6 +12,7 @@ import re
 from typing import Any
 
 from matcheck.model import Emphasis
+from matcheck.readers.monospace import is_monospace_font
 
 # Weight words in font names (common practice of type foundries); "SemiBold" and "ExtraBold"
 # contain "bold".
@@ -74,11 +75,36 @@ def emphasis_from_descriptor(font: Any) -> frozenset[Emphasis]:
     return frozenset(kinds)
 
 
+# FontDescriptor flag bit 1: FixedPitch, all glyphs the same width (PDF 32000-1:2008, table 123).
+_FLAG_FIXED_PITCH = 1
+
+
+def is_fixed_pitch(font: Any) -> bool:
+    try:
+        descriptor = _descriptor(font)
+        return descriptor is not None and bool(int(descriptor.get("/Flags", 0)) & _FLAG_FIXED_PITCH)
+    except (AttributeError, TypeError, ValueError, KeyError, IndexError):
+        return False
+
+
 class FontStyles:
     """Emphasis per font, computed once per font name for the whole document."""
 
     def __init__(self) -> None:
         self._cache: dict[str, frozenset[Emphasis]] = {}
+        self._monospace: dict[str, bool] = {}
+
+    def monospace(self, font: Any) -> bool:
+        """Whether the font is monospace: its name, or the descriptor's FixedPitch flag."""
+        if font is None:
+            return False
+        name = base_font_name(font)
+        cached = self._monospace.get(name)
+        if cached is None:
+            cached = is_monospace_font(name) or is_fixed_pitch(font)
+            if name:
+                self._monospace[name] = cached
+        return cached
 
     def emphasis(self, font: Any) -> frozenset[Emphasis]:
         if font is None:

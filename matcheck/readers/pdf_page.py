@@ -67,6 +67,8 @@ class Fragment:
     y: float
     size: float
     emphasis: frozenset[Emphasis]
+    # Set in a monospace font (code).
+    monospace: bool = False
 
 
 @dataclass(frozen=True, slots=True)
@@ -149,7 +151,9 @@ class _Collector:
             size = 0.0
         if not math.isfinite(size):
             size = 0.0
-        fragment = Fragment(text, m[4], m[5], size, self.styles.emphasis(font))
+        fragment = Fragment(
+            text, m[4], m[5], size, self.styles.emphasis(font), self.styles.monospace(font)
+        )
         self.content.fragments.append(fragment)
 
     def before(self, operator: Any, operands: Any, cm: Any, tm: Any) -> None:

@@ -166,6 +166,8 @@ def classify(blocks: list[RawBlock], images: dict[int, list[PlacedImage]]) -> li
         is_caption, target = _caption_target(block, text, page_images, page_taken)
         if block.table is not None:
             pieces.append(Piece(BlockKind.TABLE_CELL, block))
+        elif all(line.monospace for line in block.lines):
+            pieces.append(Piece(BlockKind.CODE, block))
         elif size is not None and size in levels:
             pieces.append(Piece(BlockKind.HEADING, block, level=levels[size]))
         elif is_caption:
@@ -179,8 +181,7 @@ def classify(blocks: list[RawBlock], images: dict[int, list[PlacedImage]]) -> li
     _bold_headings(pieces, body, min(len(heading_sizes) + 1, _MAX_LEVEL))
     pieces = _join_continued(pieces)
     _group_lists(pieces)
-    _group_tables(pieces)
-    return pieces
+    return _group_tables(pieces)
 
 
 def _bold_headings(pieces: list[Piece], body: float, level: int) -> None:
@@ -251,9 +252,10 @@ def _group_lists(pieces: list[Piece]) -> None:
     close()
 
 
-def _group_tables(pieces: list[Piece]) -> None:
+def _group_tables(pieces: list[Piece]) -> list[Piece]:
     """One group per table, numbered after the lists' groups. A table that ends its page and
-    one that starts the next page with the same columns are one table the page break split."""
+    one that starts the next page with the same columns are one table the page break split;
+    a header row the word processor repeats at the top of the continued part is dropped."""
     first = max((piece.group for piece in pieces if piece.group is not None), default=0)
     starts: dict[int, list[float]] = {}
     for piece in pieces:
@@ -272,3 +274,25 @@ def _group_tables(pieces: list[Piece]) -> None:
     for piece in pieces:
         if (table := piece.block.table) is not None:
             piece.group = first + continues.get(table, table)
+    repeated = {
+        id(cell)
+        for part, table in continues.items()
+        for cell in _repeated_header(pieces, table, part)
+    }
+    return [piece for piece in pieces if id(piece) not in repeated]
+
+
+def _first_row(pieces: list[Piece], table: int) -> list[Piece]:
+    cells = [piece for piece in pieces if piece.block.table == table]
+    if not cells:
+        return []
+    top = cells[0].block.lines[0].y
+    return [cell for cell in cells if abs(cell.block.lines[0].y - top) < 1.0]
+
+
+def _repeated_header(pieces: list[Piece], table: int, part: int) -> list[Piece]:
+    """The continued part's first row when it repeats the table's first row word for word."""
+    header, row = _first_row(pieces, table), _first_row(pieces, part)
+    if header and [cell.text() for cell in header] == [cell.text() for cell in row]:
+        return row
+    return []

@@ -257,7 +257,8 @@ class _Finder:
         self.largest = body * _SIZE_CHANGE if body > 0 else float("inf")
 
     def _sized(self, line: Line) -> bool:
-        return 0 < line.size <= self.largest
+        # Code is aligned by its spaces, not set in columns: never a table row.
+        return 0 < line.size <= self.largest and not line.monospace
 
     def seed(self, index: int) -> list[_Chunk] | None:
         line = self.lines[index]
