@@ -81,12 +81,10 @@ def passages(analysis: Analysis, *, code: bool = True) -> tuple[Passage, ...]:
             table.clear()
 
     for item in analysis.of(kinds):
-        if item.block.kind in (BlockKind.TABLE_CELL, BlockKind.CODE):
+        kind = item.block.kind
+        if kind in (BlockKind.TABLE_CELL, BlockKind.CODE):
             first = table[0].block if table else None
-            if first is not None and (first.group, first.kind) != (
-                item.block.group,
-                item.block.kind,
-            ):
+            if first is not None and (first.group, first.kind) != (item.block.group, kind):
                 close_table()
             table.append(item)
             continue

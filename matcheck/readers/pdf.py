@@ -39,6 +39,7 @@ import logging
 import warnings
 from collections.abc import Iterator
 from contextlib import contextmanager
+from dataclasses import replace
 from pathlib import Path
 from typing import TYPE_CHECKING, NoReturn
 
@@ -166,7 +167,10 @@ def _open(data: bytes, shown: str) -> PdfReader:
     return reader
 
 
-def _read_pages(reader: PdfReader, limits: ReadLimits, shown: str) -> list[PageContent]:
+def _read_pages(
+    reader: PdfReader, limits: ReadLimits, shown: str
+) -> tuple[list[PageContent], bool]:
+    """The pages' content, and whether the PDF is tagged (has a structure tree)."""
     from pypdf.errors import PyPdfError
 
     from matcheck.readers.pdf_alt import alt_texts
@@ -184,21 +188,36 @@ def _read_pages(reader: PdfReader, limits: ReadLimits, shown: str) -> list[PageC
             hint="raise it with --limit max_pages=N if this is really a lesson",
         )
     styles = FontStyles()
-    alt = alt_texts(reader)
+    tags = alt_texts(reader)
     pages: list[PageContent] = []
     budget = WordBudget(limits, shown, "PDF")
     for index in range(count):
         try:
             page = reader.pages[index]
             reference = page.indirect_reference
-            page_alt = alt.get(reference.idnum, {}) if reference is not None else {}
-            content = read_page(page, index + 1, styles, page_alt)
+            number = reference.idnum if reference is not None else None
+            content = read_page(page, index + 1, styles, tags.by_mcid.get(number, {}))
         except (PyPdfError, *_BROKEN) as exc:
             _corrupt(exc, shown)
+        _attach_alt(content, tags.unattached.get(number, []) if number is not None else [])
         for fragment in content.fragments:
             budget.add(fragment.text)
         pages.append(content)
-    return pages
+    return pages, tags.tagged
+
+
+def _attach_alt(content: PageContent, alts: list[str]) -> None:
+    """Give a page's unattached figure alt texts to its images without one, in order."""
+    if not alts:
+        return
+    pending = iter(alts)
+    for index, image in enumerate(content.images):
+        if image.alt_text:
+            continue
+        alt = next(pending, None)
+        if alt is None:
+            return
+        content.images[index] = replace(image, alt_text=alt)
 
 
 def _check_text(pages: list[PageContent], shown: str) -> None:
@@ -283,7 +302,7 @@ def read_pdf(path: Path, limits: ReadLimits) -> Document:
     builder = DocumentBuilder(shown, "pdf")
     with _pypdf_messages() as problems:
         reader = _open(data, shown)
-        pages = _read_pages(reader, limits, shown)
+        pages, tagged = _read_pages(reader, limits, shown)
     builder.pages = len(pages)
     _check_text(pages, shown)
     lines = [build_lines(content) for content in pages]
@@ -301,4 +320,8 @@ def read_pdf(path: Path, limits: ReadLimits) -> Document:
         raise NoText("the PDF holds no text besides running headers and page numbers", path=shown)
     if problems:
         builder.warn(f"the PDF has errors that were worked around: {_short(problems[0])}")
-    return builder.build()
+    document = builder.build()
+    if not tagged and document.figures:
+        # Only a tagged PDF can carry alt text: unknown here, never "missing".
+        document = replace(document, cannot_show=frozenset({Capability.ALT_TEXT}))
+    return document

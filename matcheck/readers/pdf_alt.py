@@ -5,10 +5,16 @@ marked-content sequences on a page, named by their MCID (14.7.4): an integer kid
 on the element's page (/Pg, inherited from the nearest ancestor that has one), a marked-content
 reference dictionary (/Type /MCR) gives its own /MCID and maybe /Pg. The page reader looks up
 the MCID around each image it meets. An untagged or broken tree simply gives no alt text.
+
+Some producers (LibreOffice among them) write a /Figure element with /Alt and /Pg but no
+content at all (no /K). Such alt texts are kept per page in document order
+(:attr:`Tags.unattached`); the reader gives them to the page's images that have none, in
+drawing order.
 """
 
 from __future__ import annotations
 
+from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
 from matcheck.readers.builder import normalize_text
@@ -23,18 +29,30 @@ _MAX_ELEMENTS = 200_000
 AltTexts = dict[int, dict[int, str]]
 
 
+@dataclass
+class Tags:
+    """What the structure tree says: whether there is one, and the alt texts it holds."""
+
+    tagged: bool = False
+    by_mcid: AltTexts = field(default_factory=dict)
+    # Page object number -> alt texts of elements with no marked content, in order.
+    unattached: dict[int, list[str]] = field(default_factory=dict)
+
+
 def _page_id(value: Any) -> int | None:
     return getattr(value, "idnum", None)
 
 
-def alt_texts(reader: PdfReader) -> AltTexts:
+def alt_texts(reader: PdfReader) -> Tags:
     """Alt text per page object number and MCID, for every tagged element with /Alt."""
-    found: AltTexts = {}
+    tags = Tags()
+    found = tags.by_mcid
     try:
         catalog: Any = reader.trailer["/Root"].get_object()
         root = catalog.get("/StructTreeRoot")
         if root is None:
-            return found
+            return tags
+        tags.tagged = True
         stack: list[tuple[Any, int | None, str]] = [(root, None, "")]
         seen: set[int] = set()
         visited = 0
@@ -60,6 +78,8 @@ def alt_texts(reader: PdfReader) -> AltTexts:
             own = node.get("/Alt")
             if own is not None:
                 alt = normalize_text(str(own)) or alt
+                if node.get("/K") is None and alt and page is not None:
+                    tags.unattached.setdefault(page, []).append(alt)
             if node.get("/Type") == "/MCR":
                 mcid = node.get("/MCID")
                 if isinstance(mcid, int) and alt and page is not None:
@@ -70,5 +90,5 @@ def alt_texts(reader: PdfReader) -> AltTexts:
                 stack.append((kids, page, alt))
     except Exception:
         # Whatever a broken tree raises (pypdf's own errors included): alt text is optional.
-        return found
-    return found
+        return tags
+    return tags

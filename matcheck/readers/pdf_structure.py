@@ -39,6 +39,7 @@ from matcheck.readers.pdf_text import (
     ends_sentence,
     join_lines,
     list_marker_length,
+    marker_kind,
     plain,
     strip_prefix,
 )
@@ -243,6 +244,8 @@ def _group_lists(pieces: list[Piece]) -> None:
 
     for piece in pieces:
         if piece.kind is BlockKind.LIST_ITEM:
+            if run and _starts_new_list(run, piece):
+                close()
             if not run:
                 group += 1
             piece.group = group
@@ -250,6 +253,20 @@ def _group_lists(pieces: list[Piece]) -> None:
         else:
             close()
     close()
+
+
+def _starts_new_list(run: list[Piece], piece: Piece) -> bool:
+    """A top-level item whose marker changes kind (bullet, number, letter) or restarts the
+    numbering ends the list before it, as in DOCX numbering and Markdown."""
+    first = run[0].block.lines[0].x
+    if piece.block.lines[0].x > first + _INDENT_TOLERANCE:
+        return False  # a nested item stays in its list
+    top = [item for item in run if item.block.lines[0].x <= first + _INDENT_TOLERANCE]
+    kind, value = marker_kind(top[-1].block.lines[0].text)
+    new_kind, new_value = marker_kind(piece.block.lines[0].text)
+    if kind != new_kind:
+        return True
+    return value is not None and new_value is not None and new_value <= value
 
 
 def _group_tables(pieces: list[Piece]) -> list[Piece]:

@@ -37,6 +37,17 @@ def list_marker_length(text: str) -> int:
     return len(text) - len(stripped) + match.end()
 
 
+def marker_kind(text: str) -> tuple[str, int | None]:
+    """A list marker's kind ("bullet", "number", "letter") and its value (1 for "1." or "a)")."""
+    stripped = text.lstrip()
+    marker = stripped[: list_marker_length(stripped)].strip().strip("().")
+    if marker.isdigit():
+        return "number", int(marker)
+    if len(marker) == 1 and marker.isalpha():
+        return "letter", ord(marker.lower()) - ord("a") + 1
+    return "bullet", None
+
+
 def is_page_number(text: str) -> bool:
     """'3', 'Page 3', '3 of 10', '3/10', '- 3 -'."""
     return _PAGE_NUMBER.fullmatch(" ".join(text.split())) is not None
