@@ -175,7 +175,7 @@ def python_docx(source: Path, target: Path) -> None:
             if path.suffix == ".svg":
                 path, width = svg_png, Cm(12.7)  # 480 px at 96 dpi, as pandoc shows it
             else:
-                width = Cm(15.875)  # 600 px at 96 dpi
+                width = Cm(14.817)  # 5.833 in, the width pandoc gives it (page width)
             document.add_picture(str(path), width=width)
             inline = document.inline_shapes[-1]._inline
             inline.docPr.set("descr", alt)
