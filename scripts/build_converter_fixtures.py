@@ -173,9 +173,10 @@ def python_docx(source: Path, target: Path) -> None:
             alt, src = match.groups()
             path = OUT / src
             if path.suffix == ".svg":
-                path, width = svg_png, Cm(12.7)  # 480 px at 96 dpi, as pandoc shows it
-            else:
-                width = Cm(14.817)  # 5.833 in, the width pandoc gives it (page width)
+                path = svg_png
+            # As pandoc shows a picture: its pixels at 96 dpi, at most the 5.833 in text width.
+            with Image.open(path) as image:
+                width = Cm(min(image.width / 96, 5.8333) * 2.54)
             document.add_picture(str(path), width=width)
             inline = document.inline_shapes[-1]._inline
             inline.docPr.set("descr", alt)
