@@ -45,7 +45,7 @@ from typing import TYPE_CHECKING, NoReturn
 
 from matcheck.errors import CorruptFile, EncryptedFile, LimitExceeded, NoText
 from matcheck.limits import ReadLimits
-from matcheck.model import BlockKind, Document
+from matcheck.model import BlockKind, Capability, Document
 from matcheck.readers.builder import DocumentBuilder
 from matcheck.readers.wordlimit import WordBudget
 
