@@ -198,18 +198,33 @@ def test_markdown_unmatched_equals_stay_text(tmp_path: Path) -> None:
     assert block.emphasis == ()
 
 
-def test_markdown_front_matter_is_not_text(tmp_path: Path) -> None:
+def test_markdown_front_matter_title_is_the_title_and_the_rest_is_not_text(
+    tmp_path: Path,
+) -> None:
     source = (
-        "---\ntitle: Composting basics\nauthor: someone\n---\n\n# Composting\n\n"
+        "---\ntitle: \"Composting basics\"\nauthor: someone\n---\n\n# Composting\n\n"
         "Greens and browns.\n"
     )
     document = _read(tmp_path, source)
-    assert _kinds(document) == [BlockKind.HEADING, BlockKind.PARAGRAPH]
+    # pandoc's title block (pandoc manual, "Metadata blocks"): the title sits above every
+    # "#" heading, so it is rank 1 of the outline and "#" rank 2.
+    assert _kinds(document) == [BlockKind.HEADING, BlockKind.HEADING, BlockKind.PARAGRAPH]
+    assert [(b.text, b.level) for b in document.blocks_of(BlockKind.HEADING)] == [
+        ("Composting basics", 1),
+        ("Composting", 2),
+    ]
     assert not any("author" in block.text for block in document.blocks)
-    assert document.blocks[0].location.line == 6
+    assert document.blocks[1].location.line == 6
 
 
-def test_markdown_code_blocks_excluded_and_recorded(tmp_path: Path) -> None:
+def test_markdown_front_matter_without_title_adds_no_heading(tmp_path: Path) -> None:
+    document = _read(tmp_path, "---\nauthor: someone\n---\n\n# Composting\n\nGreens.\n")
+    assert [(b.text, b.level) for b in document.blocks_of(BlockKind.HEADING)] == [
+        ("Composting", 1)
+    ]
+
+
+def test_markdown_code_blocks_are_code_lines(tmp_path: Path) -> None:
     source = (
         "Check the router:\n\n"
         "```sh\nping 192.168.1.1\n```\n\n"
@@ -218,10 +233,14 @@ def test_markdown_code_blocks_excluded_and_recorded(tmp_path: Path) -> None:
         "Then reboot it.\n"
     )
     document = _read(tmp_path, source)
-    # CommonMark 4.4 (indented) and 4.5 (fenced with ``` or ~~~): three code blocks.
+    # CommonMark 4.4 (indented) and 4.5 (fenced with ``` or ~~~): three code blocks, each
+    # line a CODE block of its own group, never prose.
     assert _texts(document, BlockKind.PARAGRAPH) == ["Check the router:", "Then reboot it."]
-    assert document.excluded == ("3 code blocks",)
-    assert not any("ping" in block.text for block in document.blocks)
+    code = document.blocks_of(BlockKind.CODE)
+    assert [block.text for block in code] == ["ping 192.168.1.1", "ip addr show", "second fence"]
+    assert len({block.group for block in code}) == 3
+    assert [block.location.line for block in code] == [4, 7, 10]
+    assert document.excluded == ()
 
 
 def test_markdown_footnotes_are_footnote_blocks_at_the_end(tmp_path: Path) -> None:

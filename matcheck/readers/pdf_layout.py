@@ -135,43 +135,10 @@ def build_lines(content: PageContent) -> list[Line]:
                 continue
         current = Line(content.number, [fragment], fragment.x, fragment.y, fragment.size)
         lines.append(current)
-    lines = _rejoin_rows(lines)
     for line in lines:
         line.size = dominant_size([line])
     return lines
 
-
-# How many lines back a piece of a row may have been drawn (a table row whose first cell
-# wraps is drawn cell by cell: first cell's lines, then the other cells on the first baseline).
-_ROW_LOOKBACK = 4
-
-
-def _rejoin_rows(lines: list[Line]) -> list[Line]:
-    """Put back on its line text drawn after lines below it, on the same baseline, further right.
-
-    LibreOffice draws a table row cell by cell, so a row whose first cell wraps comes out as
-    "Stud wall with", "insulation", then "12 cm  6 dB" back up on the first baseline. Only a
-    few lines back are searched, and only lines that went down the page since, so columns of
-    prose (which return to the top of the page) are not touched.
-    """
-    kept: list[Line] = []
-    for line in lines:
-        target = None
-        for back in range(1, min(_ROW_LOOKBACK, len(kept)) + 1):
-            candidate = kept[-back]
-            limit = _SAME_LINE * max(line.size, candidate.size, 1.0)
-            if abs(candidate.y - line.y) <= limit:
-                below = kept[len(kept) - back + 1 :]
-                right = line.x > max(f.x for f in candidate.fragments if f.text.strip())
-                if back > 1 and right and all(other.y < candidate.y - limit for other in below):
-                    target = candidate
-                break
-        if target is None:
-            kept.append(line)
-        else:
-            target.fragments.extend(line.fragments)
-            target.size = max(target.size, line.size)
-    return kept
 
 
 def _band(y: float, content: PageContent) -> str | None:

@@ -308,12 +308,17 @@ class _Finder:
             table.lines.insert(0, (line, found))
             start -= 1
         end = index + 1
+        # Rows are reached from the table's lowest line so far: a row whose first cell wraps
+        # is drawn cell by cell (LibreOffice), so its last line drawn may be back up on the
+        # row's first baseline.
+        lowest = min((item for item, _ in table.lines), key=lambda item: item.y)
         while end < len(self.lines):
             line = self.lines[end]
-            found = self.accept(table, line, table.lines[-1][0], forward=True)
+            found = self.accept(table, line, lowest, forward=True)
             if found is None:
                 break
             table.lines.append((line, found))
+            lowest = line if line.y < lowest.y else lowest
             end += 1
         return start, end, table
 
