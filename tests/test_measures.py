@@ -151,13 +151,26 @@ def test_block_boundary_ends_a_sentence() -> None:
 
 def test_heading_levels_below_three_are_reported_when_used() -> None:
     builder = DocumentBuilder("lesson.md", "markdown")
-    builder.add_block(BlockKind.HEADING, "Title", level=1)
-    builder.add_block(BlockKind.HEADING, "Deep", level=5)
+    for level in (1, 2, 3, 5):
+        builder.add_block(BlockKind.HEADING, f"Level {level}", level=level)
+    builder.add_block(BlockKind.HEADING, "Deep", level=6)
     profile = _profile(builder)
-    assert _value(profile, "headings_level_4") == 0
+    # Outline ranks: the skipped level 4 closes up, so 5 is rank 4 and 6 rank 5.
+    assert _value(profile, "headings_level_4") == 1
     assert _value(profile, "headings_level_5") == 1
     assert profile.get("headings_level_6") is None  # deeper than any heading used
     assert _value(profile, "sections") == 1  # a lone title is one section
+
+
+def test_the_same_outline_has_the_same_levels_whatever_the_numbers() -> None:
+    # Word: Title (level 0) over Heading 1 over Heading 2; Markdown: # over ## over ###.
+    levels = []
+    for numbers in ((0, 1, 2, 2), (1, 2, 3, 3), (2, 3, 4, 4)):
+        builder = DocumentBuilder("lesson", "docx")
+        for number in numbers:
+            builder.add_block(BlockKind.HEADING, f"Heading {number}", level=number)
+        levels.append([block.level for block in builder.build().blocks])
+    assert levels == [[1, 2, 3, 3]] * 3
 
 
 # --- reading time ---------------------------------------------------------------------------

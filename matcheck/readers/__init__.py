@@ -14,7 +14,7 @@ from pathlib import Path
 
 from matcheck.errors import InputError, LimitExceeded, MatcheckError, NoText
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
-from matcheck.model import Capability, Document
+from matcheck.model import BlockKind, Capability, Document
 from matcheck.readers.builder import MAX_WARNINGS
 from matcheck.readers.deadline import deadline
 from matcheck.readers.sniff import EXTENSIONS, looks_like_markdown, sniff_format
@@ -157,7 +157,8 @@ def _read(path: Path, limits: ReadLimits) -> Document:
                 *document.warnings,
             ),
         )
-    if not any(block.text for block in document.blocks):
+    # Code alone is not a lesson: no prose measure would be defined.
+    if not any(block.text for block in document.blocks if block.kind is not BlockKind.CODE):
         raise NoText("the file holds no lesson text", path=shown)
     if fmt == "text" and looks_like_markdown(head.decode("utf-8", "replace")):
         document = replace(
