@@ -586,6 +586,10 @@ def test_line_joining_rules() -> None:
 
     # Common practice: a letter, a hyphen at the line end and a lowercase letter next.
     assert join("inter-", "ference") == "interference"
+    # A real hyphen at a line end stays when the joined word is no word (CMU Pronouncing
+    # Dictionary): "singlepurpose" is none, so "single-purpose" is kept whole, no space.
+    assert join("a single-", "purpose sketch") == "a single-purpose sketch"
+    assert join("a two-", "storey house") == "a two-storey house"
     assert join("Wi-", "Fi routers") == "Wi- Fi routers"
     assert join("a 3-", "day trip") == "a 3- day trip"
     assert join("two lines", "of text") == "two lines of text"

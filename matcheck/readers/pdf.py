@@ -293,6 +293,7 @@ def read_pdf(path: Path, limits: ReadLimits) -> Document:
     )
     from matcheck.readers.pdf_structure import classify
     from matcheck.readers.pdf_tables import split_page
+    from matcheck.readers.pdf_text import DOCUMENT_WORDS, document_words
 
     shown = str(path)
     try:
@@ -314,8 +315,13 @@ def read_pdf(path: Path, limits: ReadLimits) -> Document:
     body = dominant_size(line for page_lines in lines for line in page_lines)
     ids = itertools.count(1)
     blocks = [block for page_lines in lines for block in split_page(page_lines, leading, body, ids)]
-    pieces = classify(blocks, {content.number: content.images for content in pages})
-    _emit(builder, pages, pieces)
+    words = document_words(line.text for page_lines in lines for line in page_lines)
+    token = DOCUMENT_WORDS.set(words)
+    try:
+        pieces = classify(blocks, {content.number: content.images for content in pages})
+        _emit(builder, pages, pieces)
+    finally:
+        DOCUMENT_WORDS.reset(token)
     if not builder.blocks:
         raise NoText("the PDF holds no text besides running headers and page numbers", path=shown)
     if problems:

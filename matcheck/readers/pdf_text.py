@@ -8,8 +8,10 @@ from __future__ import annotations
 
 import re
 from collections.abc import Iterable, Sequence
+from contextvars import ContextVar
 
 from matcheck.model import Emphasis
+from matcheck.readers.dictionary import is_word
 from matcheck.readers.builder import NO_EMPHASIS, Run
 
 # Bullet glyphs, including the private-use bullets Word's Symbol/Wingdings fonts leave behind.
@@ -63,20 +65,49 @@ def plain(runs: Iterable[Run]) -> str:
     return "".join(text for text, _ in runs)
 
 
-def _hyphen_join(runs: list[Run], following: Sequence[Run]) -> bool:
-    """Drop a line-end hyphen from ``runs`` when the word goes on in ``following``."""
+# The words (lower case) of the PDF being read, to tell a word processor's hyphenation
+# ("connec-" / "tion") from a real hyphen at a line end ("single-" / "purpose").
+DOCUMENT_WORDS: ContextVar[frozenset[str]] = ContextVar("document_words", default=frozenset())
+_WORD = re.compile(r"[^\W\d_]+(?:-[^\W\d_]+)*")
+
+
+def document_words(texts: Iterable[str]) -> frozenset[str]:
+    """Every word of the texts, in lower case, hyphenated compounds whole."""
+    return frozenset(word.lower() for text in texts for word in _WORD.findall(text))
+
+
+def _hyphen_join(runs: list[Run], following: Sequence[Run]) -> bool | None:
+    """At a line end between two letters: ``True`` drops the hyphen (hyphenation), ``False``
+    keeps it and joins without a space (a real hyphen); ``None`` when there is no hyphen.
+
+    A soft hyphen is always hyphenation. A hard one is dropped only when the joined word is a
+    word (of the document, else of the dictionary) and the hyphenated form is not a word of
+    the document: "indi-" / "cator" is "indicator", "single-" / "purpose" stays
+    "single-purpose".
+    """
     for index in range(len(runs) - 1, -1, -1):
         text = runs[index][0].rstrip()
         if text:
             break
     else:
-        return False
+        return None
     if text[-1] not in _LINE_END_HYPHENS:
-        return False
+        return None
     next_text = plain(following).lstrip()
     before = text[:-1]
-    if text[-1] != "\u00ad" and not (before and before[-1].isalpha() and next_text[:1].islower()):
-        return False
+    if text[-1] != "\u00ad":
+        if not (before and before[-1].isalpha() and next_text[:1].islower()):
+            return None
+        head = _WORD.findall(before)
+        tail = _WORD.findall(next_text)
+        if head and tail:
+            words = DOCUMENT_WORDS.get()
+            joined, compound = head[-1] + tail[0], f"{head[-1]}-{tail[0]}"
+            known = joined.lower() in words or (compound.lower() not in words and is_word(joined))
+            if compound.lower() in words or not known:
+                del runs[index + 1 :]
+                runs[index] = (text, runs[index][1])
+                return False
     del runs[index + 1 :]
     runs[index] = (before, runs[index][1])
     return True
@@ -87,7 +118,7 @@ def join_lines(lines: Iterable[Sequence[Run]]) -> list[Run]:
     runs: list[Run] = []
     for line in lines:
         if runs:
-            if _hyphen_join(runs, line):
+            if _hyphen_join(runs, line) is not None:
                 runs.extend(_lstrip_runs(line))
                 continue
             runs.append((" ", NO_EMPHASIS))
