@@ -12,10 +12,12 @@ researchers use:
   code paragraphs set entirely in a monospace font, pictures with alt text).
 
 ``lesson-changed.md`` is the same lesson with three planted differences (a paragraph removed,
-a passage rewritten, a figure added); it goes through the same pandoc, LibreOffice and python-docx steps.
+a passage rewritten, a figure added); it goes through the same pandoc, LibreOffice and
+python-docx steps.
 
 The test suite reads the committed outputs and never needs pandoc or LibreOffice. Run from the
-repository root (needs pandoc, rsvg-convert, LibreOffice and the project's venv for Pillow and python-docx)::
+repository root (needs pandoc, rsvg-convert, LibreOffice, and the project's venv for Pillow
+and python-docx)::
 
     python scripts/build_converter_fixtures.py
 

@@ -202,7 +202,7 @@ def test_markdown_front_matter_title_is_the_title_and_the_rest_is_not_text(
     tmp_path: Path,
 ) -> None:
     source = (
-        "---\ntitle: \"Composting basics\"\nauthor: someone\n---\n\n# Composting\n\n"
+        '---\ntitle: "Composting basics"\nauthor: someone\n---\n\n# Composting\n\n'
         "Greens and browns.\n"
     )
     document = _read(tmp_path, source)
@@ -219,9 +219,7 @@ def test_markdown_front_matter_title_is_the_title_and_the_rest_is_not_text(
 
 def test_markdown_front_matter_without_title_adds_no_heading(tmp_path: Path) -> None:
     document = _read(tmp_path, "---\nauthor: someone\n---\n\n# Composting\n\nGreens.\n")
-    assert [(b.text, b.level) for b in document.blocks_of(BlockKind.HEADING)] == [
-        ("Composting", 1)
-    ]
+    assert [(b.text, b.level) for b in document.blocks_of(BlockKind.HEADING)] == [("Composting", 1)]
 
 
 def test_markdown_code_blocks_are_code_lines(tmp_path: Path) -> None:

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
-from matcheck.language.analysis import Analysis
 from matcheck.findings import Tolerance
+from matcheck.language.analysis import Analysis
 from matcheck.measures.base import EXACT, Group, Measurement, MeasureSpec, causes
 from matcheck.model import BlockKind, Capability
 from matcheck.settings import Settings

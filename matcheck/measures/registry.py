@@ -10,7 +10,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Iterator
 
 from matcheck.findings import Group
-from matcheck.measures.base import MeasureFunction, MeasureSpec, Role
+from matcheck.measures.base import MeasureFunction, MeasureSpec
 
 _SPECS: dict[str, MeasureSpec] = {}
 MEASURE_FUNCTIONS: list[MeasureFunction] = []

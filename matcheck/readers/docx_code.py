@@ -59,4 +59,5 @@ def _font(rpr: Element | None) -> str | None:
     fonts = rpr.find(w("rFonts"))
     if fonts is None:
         return None
-    return fonts.get(w("ascii")) or fonts.get(w("hAnsi"))
+    name = fonts.get(w("ascii")) or fonts.get(w("hAnsi"))
+    return str(name) if name is not None else None

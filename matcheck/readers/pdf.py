@@ -196,7 +196,8 @@ def _read_pages(
             page = reader.pages[index]
             reference = page.indirect_reference
             number = reference.idnum if reference is not None else None
-            content = read_page(page, index + 1, styles, tags.by_mcid.get(number, {}))
+            page_alt = tags.by_mcid.get(number, {}) if number is not None else {}
+            content = read_page(page, index + 1, styles, page_alt)
         except (PyPdfError, *_BROKEN) as exc:
             _corrupt(exc, shown)
         _attach_alt(content, tags.unattached.get(number, []) if number is not None else [])

@@ -140,7 +140,6 @@ def build_lines(content: PageContent) -> list[Line]:
     return lines
 
 
-
 def _band(y: float, content: PageContent) -> str | None:
     height = content.top - content.bottom
     if height <= 0:

@@ -11,8 +11,8 @@ from collections.abc import Iterable, Sequence
 from contextvars import ContextVar
 
 from matcheck.model import Emphasis
-from matcheck.readers.dictionary import is_word
 from matcheck.readers.builder import NO_EMPHASIS, Run
+from matcheck.readers.dictionary import is_word
 
 # Bullet glyphs, including the private-use bullets Word's Symbol/Wingdings fonts leave behind.
 BULLETS = "•◦▪▫‣⁃●○■□-–*·\uf0b7\uf0a7"
