@@ -89,6 +89,12 @@ class EvidenceKind(StrEnum):
     TERM_MISSING = "term_missing", "key term of {here} not found in {there}"
     HEADING_REMOVED = "heading_removed", "heading of {here} missing from {there}"
     HEADING_ADDED = "heading_added", "heading of {here} not in {there}"
+    HEADING_LEVEL_CHANGED = (
+        "heading_level_changed",
+        "heading of {here} at another outline level in {there}",
+    )
+    CODE_LINE_REMOVED = "code_line_removed", "code line of {here} missing from {there}"
+    CODE_LINE_ADDED = "code_line_added", "code line of {here} not in {there}"
     LIST_ITEM_REMOVED = "list_item_removed", "list item of {here} missing from {there}"
     LIST_ITEM_ADDED = "list_item_added", "list item of {here} not in {there}"
     TABLE_CELL_REMOVED = "table_cell_removed", "table cell of {here} missing from {there}"

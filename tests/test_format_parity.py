@@ -241,3 +241,28 @@ def test_untagged_pdf_alt_text_is_not_shown_rather_than_missing(tmp_path: Path) 
     measurement = profile_document(document, Settings()).get("figures_without_alt_text")
     assert measurement is not None and measurement.value is None
     assert "cannot show" in measurement.note
+
+
+# --- structure findings name the headings -----------------------------------------------------
+
+
+def test_outline_findings_name_the_heading_and_where(tmp_path: Path) -> None:
+    from matcheck.api import Version, compare_versions
+    from matcheck.findings import EvidenceKind, Status
+
+    a, b = tmp_path / "a.md", tmp_path / "b.md"
+    body = "# Mesh\n\n## Planning\n\nWalk the house.\n\n{} Placing\n\nPut nodes high.\n"
+    a.write_text(body.format("##"), encoding="utf-8")
+    b.write_text(body.format("###"), encoding="utf-8")
+    report = compare_versions(
+        [
+            Version("a", (a,)),
+            Version("b", (b,)),
+        ]
+    )
+    finding = next(f for f in report.findings if f.dimension == "headings_level_3")
+    assert finding.status is Status.DIFFERS
+    (evidence,) = finding.evidence
+    assert evidence.kind is EvidenceKind.HEADING_LEVEL_CHANGED
+    assert evidence.counterpart_text == "Placing"
+    assert evidence.location is not None and evidence.location.line == 7

@@ -13,6 +13,7 @@ from dataclasses import replace
 
 from matcheck.compare.content import PairContent
 from matcheck.compare.decide import ACTIVE
+from matcheck.compare.outline import heading_levels
 from matcheck.findings import Evidence, EvidenceKind, Finding
 from matcheck.measures import registry
 from matcheck.measures.base import Profile
@@ -48,7 +49,10 @@ def _evidence(
     if dimension == "words_per_sentence":
         return _sentence_lengths_by_section(ref, other, names)
     if dimension == "headings" or _follows(dimension, "headings"):
-        return _blocks_only_in_one(ref, other, names, BlockKind.HEADING, _HEADING)
+        found = _blocks_only_in_one(ref, other, names, BlockKind.HEADING, _HEADING)
+        return found or heading_levels(ref.document, other.document, names)
+    if dimension in ("code_blocks", "code_lines"):
+        return _blocks_only_in_one(ref, other, names, BlockKind.CODE, _CODE_LINE)
     if dimension in ("list_items", "lists"):
         return _blocks_only_in_one(ref, other, names, BlockKind.LIST_ITEM, _LIST_ITEM)
     if dimension == "tables":
@@ -78,6 +82,7 @@ _HEADING = (EvidenceKind.HEADING_REMOVED, EvidenceKind.HEADING_ADDED)
 _LIST_ITEM = (EvidenceKind.LIST_ITEM_REMOVED, EvidenceKind.LIST_ITEM_ADDED)
 _TABLE_CELL = (EvidenceKind.TABLE_CELL_REMOVED, EvidenceKind.TABLE_CELL_ADDED)
 _CAPTION = (EvidenceKind.CAPTION_REMOVED, EvidenceKind.CAPTION_ADDED)
+_CODE_LINE = (EvidenceKind.CODE_LINE_REMOVED, EvidenceKind.CODE_LINE_ADDED)
 
 
 def _blocks_only_in_one(
