@@ -18,7 +18,7 @@ from matcheck.readers.markdown_meta import front_matter_title, html_display_size
 from matcheck.readers.svg import css_px, svg_size
 from matcheck.textnorm import fold
 
-# --- text folding (docs/references.md §Unicode) ------------------------------------------------
+# --- text folding (docs/references.md §21) ------------------------------------------------
 
 
 @pytest.mark.parametrize(
@@ -39,7 +39,7 @@ def test_fold_makes_typographic_variants_one_text(raw: str, folded: str) -> None
     assert fold(raw) == folded
 
 
-# --- SVG and HTML sizes (docs/references.md §SVG) ---------------------------------------------
+# --- SVG and HTML sizes (docs/references.md §21) ---------------------------------------------
 
 
 @pytest.mark.parametrize(

@@ -73,7 +73,7 @@ class OpenEmphases:
 def html_image(attrs: dict[str, str], line: int | None) -> ImageRef:
     """The reference an ``<img>`` makes, from its attributes."""
     # A stated width and height (attributes in CSS px, or a style in any absolute unit) is a
-    # display size: CSS fixes 96 px to the inch (docs/references.md §SVG).
+    # display size: CSS fixes 96 px to the inch (docs/references.md §21).
     from matcheck.readers.markdown_meta import html_display_size
 
     width, height = html_display_size(attrs)
