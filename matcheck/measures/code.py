@@ -17,8 +17,6 @@ CODE_BLOCKS = MeasureSpec(
     "Code blocks (fenced or indented, code styles, monospace paragraphs)",
     Tolerance(reason=EXACT),
     needs=Capability.CODE,
-    label="Code blocks",
-    phrase="the number of code blocks",
 )
 CODE_LINES = MeasureSpec(
     "code_lines",
@@ -28,8 +26,6 @@ CODE_LINES = MeasureSpec(
     Tolerance(reason=EXACT),
     follows=causes("code_blocks"),
     needs=Capability.CODE,
-    label="Code lines",
-    phrase="the number of code lines",
 )
 SPECS = (CODE_BLOCKS, CODE_LINES)
 
