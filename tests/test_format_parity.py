@@ -266,3 +266,28 @@ def test_outline_findings_name_the_heading_and_where(tmp_path: Path) -> None:
     assert evidence.kind is EvidenceKind.HEADING_LEVEL_CHANGED
     assert evidence.counterpart_text == "Placing"
     assert evidence.location is not None and evidence.location.line == 7
+
+
+def test_a_changed_code_line_is_a_located_content_difference(tmp_path: Path) -> None:
+    from matcheck.api import Version, compare_versions
+    from matcheck.findings import EvidenceKind, Status
+
+    lesson = (
+        "# Mesh\n\nAsk the main node for its nodes and check each signal.\n\n"
+        "```\nssh admin@192.168.68.1\nmesh status --nodes\nmesh status --backhaul\n```\n\n"
+        "Each line names a node.\n"
+    )
+    a, b = tmp_path / "a.md", tmp_path / "b.md"
+    a.write_text(lesson, encoding="utf-8")
+    b.write_text(lesson.replace("status --nodes", "reboot --all"), encoding="utf-8")
+    report = compare_versions([Version("a", (a,)), Version("b", (b,))])
+    finding = next(f for f in report.findings if f.dimension == "code_lines_changed")
+    assert finding.status is Status.DIFFERS and finding.difference == 2
+    kinds = {(e.kind, e.text, e.location.line if e.location else None) for e in finding.evidence}
+    assert kinds == {
+        (EvidenceKind.CODE_LINE_REMOVED, "mesh status --nodes", 7),
+        (EvidenceKind.CODE_LINE_ADDED, "mesh reboot --all", 7),
+    }
+    # The same lesson twice: no finding on code at all beyond matched.
+    same = compare_versions([Version("a", (a,)), Version("a2", (a,))])
+    assert all(f.status is Status.MATCHED for f in same.findings if "code" in f.dimension)

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Iterable, Mapping, Sequence
 
+from matcheck.compare.code import code_observations
 from matcheck.compare.content import PairContent, build_model, compare_content
 from matcheck.compare.decide import Observation, decide, decide_mean, decide_sections
 from matcheck.compare.evidence import locate
@@ -49,6 +50,7 @@ def compare_pairs(
         content = compare_content(model, reference, name, settings)
         observed = list(_measured(ref, profile, reference, name, tolerances, settings))
         observed.extend(_content(content, reference, name, tolerances))
+        observed.extend(code_observations(ref, profile, reference, name, tolerances))
         findings.extend(locate(decide(observed, intended), ref, profile, content))
     spreads = _spreads(profiles, findings) if len(profiles) > 2 else ()
     return tuple(findings), spreads

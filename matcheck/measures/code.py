@@ -6,7 +6,7 @@ from collections.abc import Iterator
 
 from matcheck.findings import Tolerance
 from matcheck.language.analysis import Analysis
-from matcheck.measures.base import EXACT, Group, Measurement, MeasureSpec, causes
+from matcheck.measures.base import EXACT, Group, Measurement, MeasureSpec, Role, causes
 from matcheck.model import BlockKind, Capability
 from matcheck.settings import Settings
 
@@ -27,7 +27,17 @@ CODE_LINES = MeasureSpec(
     follows=causes("code_blocks"),
     needs=Capability.CODE,
 )
-SPECS = (CODE_BLOCKS, CODE_LINES)
+# Found by comparing two versions (matcheck.compare.code), judged from zero.
+CODE_CHANGED = MeasureSpec(
+    "code_lines_changed",
+    Group.CONTENT,
+    "lines",
+    "Code lines of one version that the other lacks, in order (changed, removed or added)",
+    Tolerance(reason="learners copy code as it stands: any changed line is visible"),
+    role=Role.PAIRWISE,
+    needs=Capability.CODE,
+)
+SPECS = (CODE_BLOCKS, CODE_LINES, CODE_CHANGED)
 
 
 def measure_code(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
