@@ -291,3 +291,20 @@ def test_a_changed_code_line_is_a_located_content_difference(tmp_path: Path) -> 
     # The same lesson twice: no finding on code at all beyond matched.
     same = compare_versions([Version("a", (a,)), Version("a2", (a,))])
     assert all(f.status is Status.MATCHED for f in same.findings if "code" in f.dimension)
+
+
+def test_pdf_inline_code_at_a_line_start_does_not_start_a_paragraph(tmp_path: Path) -> None:
+    pdf = _pdf()
+    _line(pdf, "Most kits can print their status from a command line; the main node answers")
+    # The second line starts with inline code set smaller, in Courier, then body text.
+    pdf.set_font("Courier", "", 9)
+    pdf.cell(pdf.get_string_width("ping 10.0.0.1"), 6, "ping 10.0.0.1")
+    pdf.set_font("Helvetica", "", 11)
+    pdf.cell(0, 6, " on its own address when the app shows it under Advanced.", new_x="LMARGIN")
+    pdf.ln(6)
+    document = _read_pdf(pdf, tmp_path)
+    assert [b.text for b in document.blocks_of(BlockKind.PARAGRAPH)] == [
+        "Most kits can print their status from a command line; the main node answers "
+        "ping 10.0.0.1 on its own address when the app shows it under Advanced."
+    ]
+    assert not document.blocks_of(BlockKind.CODE)
