@@ -4,7 +4,7 @@ An SVG is vector art, so its "pixel size" is its CSS size: ``width`` and ``heigh
 root ``<svg>`` element, in any absolute CSS unit, converted at CSS's fixed 96 px per inch
 (CSS Values and Units Level 3, 5.2; docs/references.md §21). A missing or relative
 (percentage) width or height falls back to the ``viewBox`` (its user units are CSS px),
-keeping the aspect ratio when only one of the two is given (SVG 1.1 §7.7). Only the start tag
+keeping the aspect ratio when only one of the two is given (SVG 1.1, 7.7). Only the start tag
 of the root element is parsed, so a hostile SVG (entities, huge paths) costs nothing.
 """
 
