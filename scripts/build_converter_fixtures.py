@@ -11,6 +11,9 @@ researchers use:
 - python-docx: the same lesson built directly (Heading 1-3, List Bullet / List Number styles,
   code paragraphs set entirely in a monospace font, pictures with alt text).
 
+The demo lesson's ``diagrams.docx`` is exported to a tagged PDF by LibreOffice too
+(``demo-diagrams-libreoffice.pdf``), a second lesson through a real converter.
+
 ``lesson-changed.md`` is the same lesson with three planted differences (a paragraph removed,
 a passage rewritten, a figure added); it goes through the same pandoc, LibreOffice and
 python-docx steps.
@@ -247,6 +250,8 @@ def main() -> None:
         libreoffice_pdf(f"{stem}-pandoc.docx", f"{stem}-untagged.pdf", tagged=False)
         pandoc_markdown(f"{stem}-pandoc.docx", f"{stem}-roundtrip.md")
         python_docx(OUT / f"{stem}.md", OUT / f"{stem}-python-docx.docx")
+    # The demo lesson's own DOCX (python-docx, scripts/build_fixtures.py) through LibreOffice.
+    libreoffice_pdf("../demo/diagrams.docx", "demo-diagrams-libreoffice.pdf", tagged=True)
 
 
 if __name__ == "__main__":

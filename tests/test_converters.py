@@ -99,3 +99,27 @@ def test_planted_differences_are_caught_in_every_pair(a: str, b: str) -> None:
     assert any("add the satellites one at a time" in str(item) for item in removed)
     added = differs["passages_added"].evidence
     assert any("reset every satellite" in str(item) for item in added)
+
+
+@pytest.mark.parametrize(
+    ("a", "b"),
+    [("diagrams.md", "diagrams.docx"), ("diagrams.md", "pdf"), ("diagrams.docx", "pdf")],
+)
+def test_demo_docx_exported_by_libreoffice_matches_its_sources(a: str, b: str) -> None:
+    from matcheck.api import profile_document
+    from matcheck.readers import read
+    from matcheck.settings import Settings
+
+    demo = FOLDER.parent / "demo"
+    paths = {
+        "diagrams.md": demo / "diagrams.md",
+        "diagrams.docx": demo / "diagrams.docx",
+        "pdf": FOLDER / "demo-diagrams-libreoffice.pdf",  # LibreOffice 7.4, tagged
+    }
+    first, second = (profile_document(read(paths[x]), Settings()) for x in (a, b))
+    findings = _findings(first, second)
+    assert [f.dimension for f in findings if f.status is Status.DIFFERS] == []
+    # Alt text comes through LibreOffice's tags: the PDF's three figures all have theirs.
+    if b == "pdf":
+        assert all(figure.alt_text for figure in second.document.figures)
+        assert len(second.document.figures) == 3
