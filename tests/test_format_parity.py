@@ -308,3 +308,35 @@ def test_pdf_inline_code_at_a_line_start_does_not_start_a_paragraph(tmp_path: Pa
         "ping 10.0.0.1 on its own address when the app shows it under Advanced."
     ]
     assert not document.blocks_of(BlockKind.CODE)
+
+
+def test_a_pdf_set_in_a_monospace_face_is_prose_not_code(tmp_path: Path) -> None:
+    pdf = _pdf()
+    for text in (
+        "A typewriter look sets the whole lesson in one monospace face.",
+        "Every line of it is then prose, as the reader sees it.",
+    ):
+        _line(pdf, text, "Courier", 11)
+    pdf.ln(8)
+    _line(pdf, "Only this line is in another face.", "Courier", 11)
+    document = _read_pdf(pdf, tmp_path)
+    assert not document.blocks_of(BlockKind.CODE)
+    assert len(document.blocks_of(BlockKind.PARAGRAPH)) == 2
+
+
+def test_a_docx_whose_body_font_is_monospace_marks_code_by_style_only(tmp_path: Path) -> None:
+    import docx
+    from docx.enum.style import WD_STYLE_TYPE
+
+    from matcheck.readers import read
+
+    document = docx.Document()
+    document.styles["Normal"].font.name = "Courier New"
+    document.add_paragraph("A typewriter look sets the whole lesson in one monospace face.")
+    document.styles.add_style("Source Code", WD_STYLE_TYPE.PARAGRAPH)
+    document.add_paragraph("mesh status --nodes", style="Source Code")
+    path = tmp_path / "typewriter.docx"
+    document.save(str(path))
+    read_back = read(path)
+    assert [b.text for b in read_back.blocks_of(BlockKind.CODE)] == ["mesh status --nodes"]
+    assert len(read_back.blocks_of(BlockKind.PARAGRAPH)) == 1

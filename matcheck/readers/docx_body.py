@@ -130,6 +130,8 @@ class StoryReader:
             return False
         if self.code.is_code_style(style_id):
             return True
+        if self.code.body_monospace:
+            return False
         return content.characters > 0 and content.monospace == content.characters
 
     def _code_lines(self, content: _Content) -> None:

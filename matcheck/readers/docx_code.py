@@ -17,6 +17,9 @@ class CodeFonts:
     def __init__(self, styles: StyleSheet) -> None:
         self._styles = styles
         self._cache: dict[tuple[str | None, str | None], bool] = {}
+        # A lesson whose body text is itself monospace (a typewriter look) marks no code by
+        # font: only code styles then say what is code.
+        self.body_monospace = self._inherited(styles.default_paragraph, None)
 
     def is_code_style(self, style_id: str | None) -> bool:
         return any(_name(style) in CODE_PARAGRAPH_STYLES for style in self._styles.chain(style_id))

@@ -98,6 +98,11 @@ class StyleSheet:
         self._chains[key] = found
         return found
 
+    @property
+    def default_paragraph(self) -> str | None:
+        """The document's default paragraph style id ("Normal" in practice)."""
+        return self._default_paragraph
+
     def paragraph_style(self, paragraph: Element) -> str | None:
         """The paragraph's style id (the document's default paragraph style when unset)."""
         style_id = val(paragraph.find(f"{w('pPr')}/{w('pStyle')}"))

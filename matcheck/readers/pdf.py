@@ -52,6 +52,7 @@ from matcheck.readers.wordlimit import WordBudget
 if TYPE_CHECKING:
     from pypdf import PdfReader
 
+    from matcheck.readers.pdf_layout import Line
     from matcheck.readers.pdf_page import PageContent
     from matcheck.readers.pdf_structure import Piece
 
@@ -207,6 +208,22 @@ def _read_pages(
     return pages, tags.tagged
 
 
+def _monospace_body(lines: list[list[Line]]) -> None:
+    """A PDF whose text is mostly monospace (a typewriter look) marks no code by font."""
+    characters = monospace = 0
+    for page_lines in lines:
+        for line in page_lines:
+            for fragment in line.fragments:
+                visible = len(fragment.text.strip())
+                characters += visible
+                monospace += visible if fragment.monospace else 0
+    if monospace * 2 <= characters:
+        return
+    for page_lines in lines:
+        for line in page_lines:
+            line.fragments = [replace(f, monospace=False) for f in line.fragments]
+
+
 def _attach_alt(content: PageContent, alts: list[str]) -> None:
     """Give a page's unattached figure alt texts to its images without one, in order."""
     if not alts:
@@ -312,6 +329,7 @@ def read_pdf(path: Path, limits: ReadLimits) -> Document:
         builder.exclude("running headers, footers and page numbers")
     if remove_running_images(pages):
         builder.exclude("images repeated in running headers or footers (logos)")
+    _monospace_body(lines)
     leading = typical_leading(lines)
     body = dominant_size(line for page_lines in lines for line in page_lines)
     ids = itertools.count(1)
