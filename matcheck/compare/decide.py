@@ -71,6 +71,7 @@ class Observation:
     item: str | None = None
     beyond: str = "beyond tolerance: a possible confound"
     within: str = "within tolerance"
+    unknown: str = "not measurable in every version"
 
 
 def judge(observation: Observation, intended: Mapping[str, str]) -> Judgement:
@@ -81,7 +82,7 @@ def judge(observation: Observation, intended: Mapping[str, str]) -> Judgement:
         basis = Basis.DECLARED if by in (spec.id, spec.group) else Basis.IMPLIED
         return basis, f"manipulated ({by})", None
     if observation.amount is None:
-        return Basis.NOT_SHOWN, "not measurable in every version", None
+        return Basis.NOT_SHOWN, observation.unknown, None
     if observation.judged is not None:
         return observation.judged
     allowed = observation.tolerance.allowed(observation.base)

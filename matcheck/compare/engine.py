@@ -91,6 +91,11 @@ def _measured(
                     ref_m, other_m, tolerance, settings.alpha, settings.min_section_sentences
                 )
                 judged = local or judged
+        notes = [
+            f"{label}: {m.note}"
+            for label, m in ((ref_name, ref_m), (name, other_m))
+            if m is not None and m.value is None and m.note
+        ]
         yield Observation(
             spec=spec,
             reference=ref_name,
@@ -101,6 +106,7 @@ def _measured(
             tolerance=tolerance,
             base=a or 0.0,
             judged=judged,
+            unknown="not measurable in every version" + (f" ({'; '.join(notes)})" if notes else ""),
         )
 
 
