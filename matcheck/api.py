@@ -242,10 +242,10 @@ def check_against(
     from matcheck.compare.engine import compare_pairs
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.findings import Regression, RegressionKind, Status
-    from matcheck.revision import export_folder
+    from matcheck.revision import load_study_at
     from matcheck.study import load_study
 
-    study = load_study(study_path)
+    study = load_study(study_path, allow_outside=limits.allow_outside_files)
     settings = _study_settings(study)
     profiles, conditions = _measure_versions(
         _study_versions(study), study.reference, settings, limits
@@ -253,7 +253,7 @@ def check_against(
     now = _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
     with tempfile.TemporaryDirectory(prefix="matcheck-rev-") as folder:
         # The learners' data belong to now, not to the materials' past revision.
-        old_study = load_study(export_folder(study_path, revision, Path(folder)), with_data=False)
+        old_study = load_study_at(study_path, revision, Path(folder), limits)
         old_settings = _study_settings(old_study)
         old_profiles, old_conditions = _measure_versions(
             _study_versions(old_study), old_study.reference, old_settings, limits

@@ -114,6 +114,9 @@ def _printable(text: str) -> str:
 
 
 def _read(path: Path, limits: ReadLimits) -> Document:
+    from matcheck.inputs import note
+
+    note(path)
     shown = str(path)
     try:
         if not path.exists():

@@ -31,10 +31,14 @@ def render_json(results: Sequence[StudyResult], options: RenderOptions | None = 
 
 
 def render_markdown(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
+    from matcheck.report.escape import markdown
     from matcheck.report.markdown import render_markdown as one
 
     return "\n".join(
-        one(r.report) if r.report is not None else f"## {r.path}\n\n❗ {r.error}\n" for r in results
+        one(r.report)
+        if r.report is not None
+        else f"## {markdown(r.path)}\n\n❗ {markdown(r.error or '')}\n"
+        for r in results
     )
 
 
@@ -51,8 +55,9 @@ def render_github(results: Sequence[StudyResult], options: RenderOptions | None 
 def render_summary(
     results: Sequence[StudyResult], console: Console, options: RenderOptions | None = None
 ) -> None:
-    from rich.markup import escape
     from rich.table import Table
+
+    from matcheck.report.escape import rich as escape
 
     table = Table(title="Studies", title_justify="left", header_style="bold")
     for column in ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Problem"):
