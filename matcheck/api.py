@@ -6,6 +6,7 @@ The CLI and any Python caller use these functions; reports render what they retu
 from __future__ import annotations
 
 from collections.abc import Sequence
+from contextlib import AbstractContextManager
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -46,8 +47,13 @@ def profile_files(
     paths: Sequence[Path], settings: Settings, limits: ReadLimits = DEFAULT_LIMITS
 ) -> list[Profile]:
     from matcheck.readers import read
+    from matcheck.readers.deadline import deadline
 
-    return [profile_document(read(path, limits), settings) for path in paths]
+    profiles = []
+    for path in paths:
+        with deadline(limits.max_read_seconds, str(path), "reading and measuring the lesson"):
+            profiles.append(profile_document(read(path, limits), settings))
+    return profiles
 
 
 def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[str]:
@@ -67,15 +73,27 @@ def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[st
     return [str(path) for path in paths]
 
 
+def _comparing(limits: ReadLimits) -> AbstractContextManager[None]:
+    """The comparison of the measured versions gets the per-lesson time budget too."""
+    from matcheck.readers.deadline import deadline
+
+    return deadline(limits.max_read_seconds, "the lesson versions", "comparing the versions")
+
+
 def _measure_versions(
     versions: Sequence[Version], reference: str, settings: Settings, limits: ReadLimits
 ) -> tuple[dict[str, Profile], list[Condition]]:
     """Read and measure each version once; the conditions as the report names them."""
     profiles: dict[str, Profile] = {}
     conditions = []
+    from matcheck.readers.deadline import deadline
+
     for version in versions:
-        document = read_version(version, limits)
-        profiles[version.name] = profile_document(document, settings)
+        # One time budget covers reading, analysing and measuring the lesson (docs/limits.md).
+        shown = ", ".join(str(path) for path in version.paths)
+        with deadline(limits.max_read_seconds, shown, "reading and measuring the lesson"):
+            document = read_version(version, limits)
+            profiles[version.name] = profile_document(document, settings)
         conditions.append(
             Condition(
                 name=version.name,
@@ -117,7 +135,10 @@ def compare_versions(
     expand_manipulated(manipulated)
     tolerances = parse_tolerances(tolerance_overrides)
     profiles, conditions = _measure_versions(versions, reference, settings, limits)
-    findings, spreads = compare_profiles(profiles, reference, manipulated, tolerances, comparison)
+    with _comparing(limits):
+        findings, spreads = compare_profiles(
+            profiles, reference, manipulated, tolerances, comparison
+        )
     return Report(
         conditions=tuple(conditions),
         reference=reference,
@@ -168,12 +189,13 @@ def _study_report(
 
     tolerances = parse_tolerances([*study.tolerances, *extra_tolerances])
     pairs = comparisons(study)
-    findings, spreads = compare_pairs(
-        profiles,
-        [(p.reference, p.condition, p.manipulated) for p in pairs],
-        tolerances,
-        study.comparison,
-    )
+    with _comparing(limits):
+        findings, spreads = compare_pairs(
+            profiles,
+            [(p.reference, p.condition, p.manipulated) for p in pairs],
+            tolerances,
+            study.comparison,
+        )
     warnings: tuple[str, ...] = ()
     if study.posttest:
         from matcheck.compare.assessment import PostTest, assess_posttest

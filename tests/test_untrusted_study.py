@@ -453,3 +453,37 @@ def test_against_with_a_study_linked_from_outside_the_repository(
     link = repo / "study" / "linked.toml"
     link.symlink_to(elsewhere)
     _refused(*_run(capsys, "check", link, "--against", "HEAD", "--allow-outside"), "outside")
+
+
+# --- bounded work ---------------------------------------------------------------------------
+
+
+def test_a_huge_single_word_is_refused_before_analysis(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path
+) -> None:
+    lesson = tmp_path / "word.md"
+    lesson.write_text("# Valves\n\nPump the tyre. " + "x" * 200_000 + "\n", encoding="utf-8")
+    _refused(*_run(capsys, "profile", lesson), "max_token_chars")
+    # A long URL is far below the limit (docs/limits.md).
+    lesson.write_text("# Valves\n\nSee " + "https://example.org/" + "a" * 3000 + " now.\n")
+    status, _, err = _run(capsys, "profile", lesson, "--format", "json")
+    assert status == 0, err
+
+
+def test_the_time_limit_covers_the_analysis(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    import time
+
+    import matcheck.api
+
+    measure = matcheck.api.profile_document
+
+    def slow(*args: object, **kwargs: object) -> object:
+        time.sleep(3)  # an analysis that takes longer than the budget below
+        return measure(*args, **kwargs)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(matcheck.api, "profile_document", slow)
+    study = _study(tmp_path / "study")
+    status, out, err = _run(capsys, "check", study, "--limit", "max_read_seconds=1")
+    _refused(status, out, err, "max_read_seconds", "reading and measuring")
