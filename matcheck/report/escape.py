@@ -38,7 +38,9 @@ _XML_INVALID = re.compile("[^\x09\x0a\x0d\x20-\ud7ff\ue000-\ufffd\U00010000-\U00
 # emphasis, code, links and images (``!`` and ``(`` only matter after ``[``/``]``), tables,
 # strike-through. Line-start syntax (``#``, ``-``, ``>``) cannot occur: text is never put at
 # the start of a line.
-_MD_SPECIAL = re.compile(r"([\\`*_\[\]|~])")
+_MD_SPECIAL = re.compile(r"([\\`*\[\]|~]|(?<![^\W_])_|_(?![^\W_]))")
+# (An underscore between two letters or digits, as in words_per_sentence, can never open or
+# close emphasis in CommonMark §6.2, so it is left as it is.)
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 
 
