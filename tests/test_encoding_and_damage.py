@@ -121,3 +121,24 @@ def test_docx_that_lost_an_image_is_read(
                 copy.writestr(info, source.read(info))
     assert main(["profile", str(broken)]) == 2
     assert capsys.readouterr().err.count("\n") == 1
+
+
+_FONT = Path("/usr/share/fonts/truetype/dejavu/DejaVuSans.ttf")
+
+
+@pytest.mark.skipif(not _FONT.exists(), reason="needs the DejaVu Sans font (fonts-dejavu-core)")
+def test_pdf_with_ligature_glyphs_is_read(tmp_path: Path) -> None:
+    # fpdf2 embeds the font with a ToUnicode map that sends each ligature glyph to its
+    # presentation form (U+FB01 ...), as the real-world PDFs that crashed the reader did.
+    from fpdf import FPDF
+
+    pdf = FPDF()
+    pdf.add_page()
+    pdf.add_font("DejaVu", "", str(_FONT))
+    pdf.set_font("DejaVu", size=12)
+    text = "The \ufb01rst step is to \ufb01nd the puncture, then ba\ufb04e the o\ufb00set \ufb02ap."
+    pdf.multi_cell(0, 8, f"Fixing a flat tyre\n\n{text}")
+    path = tmp_path / "ligatures.pdf"
+    pdf.output(str(path))
+    body = " ".join(block.text for block in read(path).blocks)
+    assert unicodedata.normalize("NFKC", text) in body

@@ -487,3 +487,25 @@ def test_the_time_limit_covers_the_analysis(
     study = _study(tmp_path / "study")
     status, out, err = _run(capsys, "check", study, "--limit", "max_read_seconds=1")
     _refused(status, out, err, "max_read_seconds", "reading and measuring")
+
+
+@pytest.mark.parametrize("key", ["files", "pilot"])
+def test_data_files_outside_are_refused(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path, secret: Path, key: str
+) -> None:
+    study = _study(tmp_path / "study")
+    other = "pilot" if key == "files" else "files"
+    (study.parent / "inside.csv").write_text("learner,condition,Q1\n1,A,1\n", encoding="utf-8")
+    study.write_text(
+        study.read_text()
+        + f'\n[data]\n{key} = ["{secret}"]\n{other} = ["inside.csv"]\nposttest = ["Q*"]\n'
+    )
+    _refused(*_run(capsys, "check", study), f"data.{key}", "outside")
+
+
+def test_output_onto_a_data_file(capsys: pytest.CaptureFixture[str], tmp_path: Path) -> None:
+    folder = tmp_path / "demo"
+    shutil.copytree(DEMO, folder, ignore=shutil.ignore_patterns("*.json"))
+    before = (folder / "learners.csv").read_bytes()
+    _refused(*_run(capsys, "check", folder / "study.toml", "-o", folder / "learners.csv"), "input")
+    assert (folder / "learners.csv").read_bytes() == before
