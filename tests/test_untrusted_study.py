@@ -509,3 +509,23 @@ def test_output_onto_a_data_file(capsys: pytest.CaptureFixture[str], tmp_path: P
     before = (folder / "learners.csv").read_bytes()
     _refused(*_run(capsys, "check", folder / "study.toml", "-o", folder / "learners.csv"), "input")
     assert (folder / "learners.csv").read_bytes() == before
+
+
+def test_names_from_the_learners_data_are_shown_as_written(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path
+) -> None:
+    folder = tmp_path / "demo"
+    shutil.copytree(DEMO, folder, ignore=shutil.ignore_patterns("*.json"))
+    hostile = "text-bold[/]<b>\x1b[2J"
+    for name in ("study.toml", "learners.csv"):
+        path = folder / name
+        text = path.read_text(encoding="utf-8").replace('"text-bold"', _toml(hostile))
+        if name == "learners.csv":
+            text = text.replace(",text-bold,", f",{hostile},")
+        path.write_text(text, encoding="utf-8")
+    status, out, err = _run(capsys, "check", folder / "study.toml")
+    assert status == 1, err
+    assert "text-bold[/]" in out and "\x1b" not in out
+    status, out, err = _run(capsys, "check", folder / "study.toml", "--format", "markdown")
+    assert status == 1, err
+    assert "<b>" not in re.sub(r"(`+).*?\1", "", out) and "\x1b" not in out
