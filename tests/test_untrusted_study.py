@@ -529,3 +529,13 @@ def test_names_from_the_learners_data_are_shown_as_written(
     status, out, err = _run(capsys, "check", folder / "study.toml", "--format", "markdown")
     assert status == 1, err
     assert "<b>" not in re.sub(r"(`+).*?\1", "", out) and "\x1b" not in out
+
+
+def test_latex_and_text_tables_carry_no_control_characters(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path
+) -> None:
+    study = _study(tmp_path / "study", names=("A\x1b]0;x\x07", "B\x9b31m"))
+    for fmt in ("latex", "text", "markdown"):
+        status, out, err = _run(capsys, "table", study, "--format", fmt)
+        assert status == 0, err
+        assert not any(c in out for c in "\x1b\x07\x9b"), fmt
