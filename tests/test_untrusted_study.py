@@ -539,3 +539,14 @@ def test_latex_and_text_tables_carry_no_control_characters(
         status, out, err = _run(capsys, "table", study, "--format", fmt)
         assert status == 0, err
         assert not any(c in out for c in "\x1b\x07\x9b"), fmt
+
+
+def test_json_keeps_names_exactly_and_inert(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path
+) -> None:
+    name = "A\x1b[2J\x9b31m\u2028x"
+    study = _study(tmp_path / "study", names=(name, "B"))
+    status, out, err = _run(capsys, "check", study, "--format", "json")
+    assert status == 1, err
+    assert not any(c in out for c in "\x1b\x9b\u2028")
+    assert json.loads(out)["conditions"][0]["name"] == name  # RFC 8259 §7 escapes

@@ -20,6 +20,8 @@ in a form it cannot interpret as anything but text. One function per sink:
 - :func:`csv_cell`: a text cell starting with ``=``, ``+``, ``-``, ``@``, tab or CR is prefixed
   with ``'`` so a spreadsheet shows it instead of evaluating it as a formula (OWASP, "CSV
   Injection"; docs/references.md §19). Numbers are left alone.
+- :func:`json_text`: JSON keeps every value exactly, but DEL, C1 controls and the Unicode line
+  separators are written as ``\\u`` escapes, so the JSON shown in a terminal is inert too.
 - :func:`xml_text`: characters XML 1.0 does not allow (most C0 controls, lone surrogates,
   U+FFFE/U+FFFF) are dropped, as a Word document cannot hold them.
 """
@@ -41,6 +43,7 @@ _XML_INVALID = re.compile("[^\x09\x0a\x0d\x20-\ud7ff\ue000-\ufffd\U00010000-\U00
 _MD_SPECIAL = re.compile(r"([\\`*\[\]|~]|(?<![^\W_])_|_(?![^\W_]))")
 # (An underscore between two letters or digits, as in words_per_sentence, can never open or
 # close emphasis in CommonMark §6.2, so it is left as it is.)
+_JSON_RAW = re.compile("[\x7f-\x9f\u2028\u2029]")
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 
 
@@ -102,6 +105,13 @@ def csv_cell(text: str) -> str:
     except ValueError:
         return "'" + text
     return text
+
+
+def json_text(text: str) -> str:
+    """JSON from ``json.dumps(..., ensure_ascii=False)`` with DEL, the C1 controls and the
+    line/paragraph separators as ``\\u`` escapes. json.dumps escapes only C0; these can
+    occur only inside strings, where the escape means the same character (RFC 8259 §7)."""
+    return _JSON_RAW.sub(lambda m: f"\\u{ord(m.group()):04x}", text)
 
 
 def xml_text(text: str) -> str:

@@ -60,7 +60,9 @@ def profiles_dict(profiles: Sequence[Profile]) -> dict[str, Any]:
 
 
 def render_profiles_json(profiles: Sequence[Profile], options: RenderOptions | None = None) -> str:
-    return json.dumps(profiles_dict(profiles), indent=2, ensure_ascii=False) + "\n"
+    from matcheck.report.escape import json_text
+
+    return json_text(json.dumps(profiles_dict(profiles), indent=2, ensure_ascii=False)) + "\n"
 
 
 def render_profiles_table(

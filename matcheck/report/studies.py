@@ -27,7 +27,9 @@ def render_json(results: Sequence[StudyResult], options: RenderOptions | None = 
             for result in results
         ],
     }
-    return json.dumps(data, indent=2, ensure_ascii=False) + "\n"
+    from matcheck.report.escape import json_text
+
+    return json_text(json.dumps(data, indent=2, ensure_ascii=False)) + "\n"
 
 
 def render_markdown(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
