@@ -146,8 +146,9 @@ def load_study_at(
     try:
         return load_study(old_path, with_data=False, allow_outside=limits.allow_outside_files)
     except ConfigError as problem:
-        message = problem.message.replace(str(destination.resolve()), f"{revision}:")
-        message = message.replace(str(destination), f"{revision}:")
+        message = problem.message  # name files as git does (REV:path), not the temporary copy
+        for folder in (str(destination.resolve()), str(destination)):
+            message = message.replace(folder + "/", f"{revision}:").replace(folder, revision)
         why = [f"{name} {why}" for name, why in left_out.items() if Path(name).name in message]
         if why:
             message += f" (at {revision}: {'; '.join(why)}; left out)"
