@@ -9,6 +9,8 @@ exception, and workers ignore SIGINT so that only the parent decides.
 
 from __future__ import annotations
 
+import signal
+import threading
 from collections.abc import Iterator
 from concurrent.futures import ProcessPoolExecutor
 from contextlib import contextmanager
@@ -25,9 +27,24 @@ def worker_pool(workers: int, context: BaseContext | None) -> Iterator[ProcessPo
     try:
         yield pool
     except BaseException:
-        end_workers(pool)
+        with _signals_held():  # a second Ctrl-C must not orphan the workers mid-cleanup
+            end_workers(pool)
         raise
     pool.shutdown(wait=True)
+
+
+@contextmanager
+def _signals_held() -> Iterator[None]:
+    """Ignore SIGINT and SIGTERM for the body (main thread only; elsewhere nothing changes)."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = {sig: signal.signal(sig, signal.SIG_IGN) for sig in (signal.SIGINT, signal.SIGTERM)}
+    try:
+        yield
+    finally:
+        for sig, handler in previous.items():
+            signal.signal(sig, signal.SIG_DFL if handler is None else handler)
 
 
 def end_workers(pool: ProcessPoolExecutor) -> None:
