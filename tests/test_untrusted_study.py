@@ -277,6 +277,9 @@ def test_step_summary_never_lands_on_a_lesson(
     study = _study(tmp_path / "study")
     monkeypatch.setenv("GITHUB_STEP_SUMMARY", str(study.parent / "a.md"))
     _refused(*_run(capsys, "check", study, "--format", "github"), "GITHUB_STEP_SUMMARY")
+    # In folder mode the lesson is read in a worker process; the parent still knows it.
+    _study(tmp_path / "second")
+    _refused(*_run(capsys, "check", tmp_path, "-j", "2", "-f", "github"), "GITHUB_STEP_SUMMARY")
     assert (study.parent / "a.md").read_text(encoding="utf-8") == LESSON
     summary = tmp_path / "summary.md"
     monkeypatch.setenv("GITHUB_STEP_SUMMARY", str(summary))
