@@ -2,7 +2,8 @@
 
 Nothing here reads, measures or compares. Heavy libraries are imported by the commands, not
 at start-up, so ``matcheck --help`` is instant. Exit statuses (one place, matcheck.errors):
-0 nothing differs, 1 something differs, 2 bad input or usage, 3 a bug.
+0 nothing differs, 1 something differs, 2 bad input or usage, 3 a bug, 130 Ctrl-C,
+143 SIGTERM.
 """
 
 from __future__ import annotations
