@@ -553,3 +553,16 @@ def test_json_keeps_names_exactly_and_inert(
     assert status == 1, err
     assert not any(c in out for c in "\x1b\x9b\u2028")
     assert json.loads(out)["conditions"][0]["name"] == name  # RFC 8259 §7 escapes
+
+
+@pytest.mark.parametrize("kind", ["fifo", "device"])
+def test_a_study_file_that_is_not_a_file(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path, kind: str
+) -> None:
+    study = tmp_path / "study.toml"
+    if kind == "fifo":
+        os.mkfifo(study)
+    else:
+        study.symlink_to("/dev/zero")
+    for command in ("check", "table"):
+        _refused(*_run(capsys, command, study), "not a regular file")
