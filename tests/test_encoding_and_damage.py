@@ -3,7 +3,7 @@
 Sources: Unicode Standard 5.8 "Newline Guidelines" and UAX #15 (normalization); the
 compatibility decompositions of U+FB00–U+FB06 in UnicodeData.txt, read here through Python's
 ``unicodedata`` (an implementation outside the project); RFC 2781 (UTF-16) for the byte
-layouts; docs/references.md §16 and §21.
+layouts; docs/references.md §16 and §22.
 """
 
 from __future__ import annotations

@@ -3,7 +3,7 @@
 Each test starts matcheck in a subprocess, waits until the part under test is running (worker
 processes exist, or the temporary folder of ``--against`` does), sends the signal and checks
 the exit status (130 for SIGINT, 143 for SIGTERM: 128 + the signal number, the shell's
-convention; docs/references.md §21) and that no worker process or temporary folder is left.
+convention; docs/references.md §22) and that no worker process or temporary folder is left.
 """
 
 from __future__ import annotations

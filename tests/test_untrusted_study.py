@@ -7,7 +7,7 @@ quoted, no input is ever written, and nothing in a study becomes a workflow comm
 terminal escape sequence, Rich markup, Markdown/HTML, a spreadsheet formula or invalid XML.
 Escaping rules: GitHub's documentation of workflow commands; OWASP "CSV Injection";
 CommonMark §2.4 (backslash escapes) and §6.1 (code spans); XML 1.0 §2.2 (characters);
-docs/references.md §21.
+docs/references.md §22.
 """
 
 from __future__ import annotations

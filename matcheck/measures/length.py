@@ -67,7 +67,7 @@ SPECS = (WORDS, SENTENCES, PARAGRAPHS, CHARACTERS, READING_TIME)
 
 
 def user_perceived_characters(text: str) -> int:
-    """Characters as a reader sees them, spaces excluded: block text is already NFC
+    """Characters as a reader sees them, spaces excluded: block text is already NFKC
     (readers/builder.py), and a combining mark that has no precomposed form with its base
     (UAX #15) counts with that base, not on its own. This approximates grapheme clusters
     (UAX #29) for marks; joiners are already removed by the readers."""

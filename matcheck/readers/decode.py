@@ -77,7 +77,7 @@ def decode_lesson_text(data: bytes, path: Path) -> tuple[str, list[str]]:
     return _normalize_newlines(text), warnings
 
 
-# Every line break Unicode knows (Unicode Standard 5.8; docs/references.md §21) becomes \n:
+# Every line break Unicode knows (Unicode Standard 5.8; docs/references.md §22) becomes \n:
 # a run of CRs before LF (CR CR LF, from a file converted twice) is one break, a lone CR is
 # one, NEL, LS and VT are one; PS (U+2029) separates paragraphs, so it is a blank line. A form
 # feed stays: the text reader ends a paragraph there (a page break).

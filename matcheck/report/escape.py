@@ -19,7 +19,7 @@ in a form it cannot interpret as anything but text. One function per sink:
   ``<img src=…>`` is shown, not rendered, and line breaks become spaces.
 - :func:`csv_cell`: a text cell starting with ``=``, ``+``, ``-``, ``@``, tab or CR is prefixed
   with ``'`` so a spreadsheet shows it instead of evaluating it as a formula (OWASP, "CSV
-  Injection"; docs/references.md §21). Numbers are left alone.
+  Injection"; docs/references.md §22). Numbers are left alone.
 - :func:`json_text`: JSON keeps every value exactly, but DEL, C1 controls and the Unicode line
   separators are written as ``\\u`` escapes, so the JSON shown in a terminal is inert too.
 - :func:`xml_text`: characters XML 1.0 does not allow (most C0 controls, lone surrogates,
