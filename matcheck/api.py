@@ -6,6 +6,7 @@ The CLI and any Python caller use these functions; reports render what they retu
 from __future__ import annotations
 
 from collections.abc import Sequence
+from contextlib import AbstractContextManager
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -46,8 +47,13 @@ def profile_files(
     paths: Sequence[Path], settings: Settings, limits: ReadLimits = DEFAULT_LIMITS
 ) -> list[Profile]:
     from matcheck.readers import read
+    from matcheck.readers.deadline import deadline
 
-    return [profile_document(read(path, limits), settings) for path in paths]
+    profiles = []
+    for path in paths:
+        with deadline(limits.max_read_seconds, str(path), "reading and measuring the lesson"):
+            profiles.append(profile_document(read(path, limits), settings))
+    return profiles
 
 
 def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[str]:
@@ -67,15 +73,27 @@ def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[st
     return [str(path) for path in paths]
 
 
+def _comparing(limits: ReadLimits) -> AbstractContextManager[None]:
+    """The comparison of the measured versions gets the per-lesson time budget too."""
+    from matcheck.readers.deadline import deadline
+
+    return deadline(limits.max_read_seconds, "the lesson versions", "comparing the versions")
+
+
 def _measure_versions(
     versions: Sequence[Version], reference: str, settings: Settings, limits: ReadLimits
 ) -> tuple[dict[str, Profile], list[Condition]]:
     """Read and measure each version once; the conditions as the report names them."""
     profiles: dict[str, Profile] = {}
     conditions = []
+    from matcheck.readers.deadline import deadline
+
     for version in versions:
-        document = read_version(version, limits)
-        profiles[version.name] = profile_document(document, settings)
+        # One time budget covers reading, analysing and measuring the lesson (docs/limits.md).
+        shown = ", ".join(str(path) for path in version.paths)
+        with deadline(limits.max_read_seconds, shown, "reading and measuring the lesson"):
+            document = read_version(version, limits)
+            profiles[version.name] = profile_document(document, settings)
         conditions.append(
             Condition(
                 name=version.name,
@@ -117,7 +135,10 @@ def compare_versions(
     expand_manipulated(manipulated)
     tolerances = parse_tolerances(tolerance_overrides)
     profiles, conditions = _measure_versions(versions, reference, settings, limits)
-    findings, spreads = compare_profiles(profiles, reference, manipulated, tolerances, comparison)
+    with _comparing(limits):
+        findings, spreads = compare_profiles(
+            profiles, reference, manipulated, tolerances, comparison
+        )
     return Report(
         conditions=tuple(conditions),
         reference=reference,
@@ -168,12 +189,13 @@ def _study_report(
 
     tolerances = parse_tolerances([*study.tolerances, *extra_tolerances])
     pairs = comparisons(study)
-    findings, spreads = compare_pairs(
-        profiles,
-        [(p.reference, p.condition, p.manipulated) for p in pairs],
-        tolerances,
-        study.comparison,
-    )
+    with _comparing(limits):
+        findings, spreads = compare_pairs(
+            profiles,
+            [(p.reference, p.condition, p.manipulated) for p in pairs],
+            tolerances,
+            study.comparison,
+        )
     warnings: tuple[str, ...] = ()
     if study.posttest:
         from matcheck.compare.assessment import PostTest, assess_posttest
@@ -242,10 +264,10 @@ def check_against(
     from matcheck.compare.engine import compare_pairs
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.findings import Regression, RegressionKind, Status
-    from matcheck.revision import export_folder
+    from matcheck.revision import load_study_at
     from matcheck.study import load_study
 
-    study = load_study(study_path)
+    study = load_study(study_path, allow_outside=limits.allow_outside_files)
     settings = _study_settings(study)
     profiles, conditions = _measure_versions(
         _study_versions(study), study.reference, settings, limits
@@ -253,7 +275,7 @@ def check_against(
     now = _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
     with tempfile.TemporaryDirectory(prefix="matcheck-rev-") as folder:
         # The learners' data belong to now, not to the materials' past revision.
-        old_study = load_study(export_folder(study_path, revision, Path(folder)), with_data=False)
+        old_study = load_study_at(study_path, revision, Path(folder), limits)
         old_settings = _study_settings(old_study)
         old_profiles, old_conditions = _measure_versions(
             _study_versions(old_study), old_study.reference, old_settings, limits

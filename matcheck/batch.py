@@ -10,9 +10,8 @@ module returns data; rendering and the exit status are the CLI's.
 from __future__ import annotations
 
 import os
-import tomllib
 from collections.abc import Sequence
-from concurrent.futures import ProcessPoolExecutor, as_completed
+from concurrent.futures import as_completed
 from pathlib import Path
 
 from matcheck.errors import MatcheckError, UsageError
@@ -22,8 +21,17 @@ from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 SKIPPED_FOLDERS = {".git", ".venv", "venv", "node_modules", "__pycache__", ".tox", "build", "dist"}
 
 
-def find_studies(folder: Path) -> list[Path]:
-    """Study files below ``folder``, sorted."""
+def find_studies(folder: Path, *, allow_outside: bool = False) -> list[Path]:
+    """Study files below ``folder``, sorted (matcheck/paths.py: regular files only, inside the
+    folder after following links unless ``allow_outside``, at most MAX_STUDY_BYTES)."""
+    from matcheck.paths import (
+        MAX_STUDY_BYTES,
+        inside,
+        parse_study_toml,
+        read_study_text,
+        regular_file,
+    )
+
     found = []
     for root, dirs, files in os.walk(folder):
         dirs[:] = sorted(d for d in dirs if d not in SKIPPED_FOLDERS and not d.startswith("."))
@@ -31,9 +39,22 @@ def find_studies(folder: Path) -> list[Path]:
             if not name.endswith(".toml"):
                 continue
             path = Path(root) / name
+            status = regular_file(path)  # a FIFO or /dev/zero named *.toml is never opened
+            if isinstance(status, str) or not (allow_outside or inside(path, folder)):
+                continue
+            if status.st_size > MAX_STUDY_BYTES:
+                found.append(path)  # reported by load_study, not passed over in silence
+                continue
             try:
-                data = tomllib.loads(path.read_text(encoding="utf-8"))
-            except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+                text = read_study_text(path)
+            except MatcheckError:
+                continue
+            try:
+                data = parse_study_toml(text, path)
+            except MatcheckError:
+                # A broken study is reported with its error; other broken TOML is not ours.
+                if "[[conditions]]" in text:
+                    found.append(path)
                 continue
             if isinstance(data.get("conditions"), list):
                 found.append(path)
@@ -54,10 +75,21 @@ def check_one(
         if against:
             report = check_against(path, against, extra_tolerances=tolerances, limits=limits)
         else:
-            report = check_study(load_study(path), extra_tolerances=tolerances, limits=limits)
+            study = load_study(path, allow_outside=limits.allow_outside_files)
+            report = check_study(study, extra_tolerances=tolerances, limits=limits)
     except MatcheckError as problem:
         return StudyResult(str(path), None, str(problem))
     return StudyResult(str(path), report, None)
+
+
+def _check_in_worker(
+    path: Path, against: str | None, tolerances: Sequence[str], limits: ReadLimits
+) -> tuple[StudyResult, tuple[Path, ...]]:
+    """:func:`check_one` in a worker process, with every file the worker has read (so the
+    parent can refuse them as outputs; matcheck.inputs)."""
+    from matcheck.inputs import read_so_far
+
+    return check_one(path, against, tolerances, limits), read_so_far()
 
 
 def warm_up() -> None:
@@ -100,20 +132,27 @@ def check_all(
         # of each paying the second or so it takes.
         warm_up()
         context = multiprocessing.get_context("fork")
-    with ProcessPoolExecutor(max_workers=min(workers, len(paths)), mp_context=context) as pool:
-        futures = [pool.submit(check_one, path, against, tolerances, limits) for path in paths]
+    from matcheck.inputs import note_all
+    from matcheck.workers import worker_pool
+
+    with worker_pool(min(workers, len(paths)), context) as pool:
+        futures = [
+            pool.submit(_check_in_worker, path, against, tolerances, limits) for path in paths
+        ]
         if progress:
             from rich.progress import Progress
 
             with Progress(transient=True) as bar:
                 task = bar.add_task("Checking studies", total=len(futures))
                 for future in as_completed(futures):
-                    result = future.result()
+                    result, read = future.result()
+                    note_all(read)
                     results[result.path] = result
                     bar.advance(task)
         else:
             for future in as_completed(futures):
-                result = future.result()
+                result, read = future.result()
+                note_all(read)
                 results[result.path] = result
     return [results[str(path)] for path in paths]
 
@@ -128,7 +167,7 @@ def check_folder(
     progress: bool = False,
 ) -> tuple[list[Path], list[StudyResult]]:
     """The study files below ``folder`` and the result of checking each."""
-    paths = find_studies(folder)
+    paths = find_studies(folder, allow_outside=limits.allow_outside_files)
     if not paths:
         raise UsageError(f"{folder}: no study files (TOML with [[conditions]]) below this folder")
     results = check_all(

@@ -2,7 +2,8 @@
 
 Nothing here reads, measures or compares. Heavy libraries are imported by the commands, not
 at start-up, so ``matcheck --help`` is instant. Exit statuses (one place, matcheck.errors):
-0 nothing differs, 1 something differs, 2 bad input or usage, 3 a bug.
+0 nothing differs, 1 something differs, 2 bad input or usage, 3 a bug, 130 Ctrl-C,
+143 SIGTERM.
 """
 
 from __future__ import annotations
@@ -16,12 +17,22 @@ from typing import TYPE_CHECKING, Annotated
 import typer
 
 from matcheck import __version__
-from matcheck.errors import EXIT_BUG, EXIT_INPUT, EXIT_MATCHED, MatcheckError, UsageError
+from matcheck.errors import (
+    EXIT_BUG,
+    EXIT_INPUT,
+    EXIT_INTERRUPTED,
+    EXIT_MATCHED,
+    EXIT_TERMINATED,
+    MatcheckError,
+    UsageError,
+)
 from matcheck.findings import exit_status
 from matcheck.report.formatter import Formatter, RenderOptions, Subject
 from matcheck.report.registry import get, names, render_text
 
 if TYPE_CHECKING:
+    import click
+
     from matcheck.findings import Report
     from matcheck.limits import ReadLimits
 
@@ -71,7 +82,8 @@ AllowOutside = Annotated[
     bool,
     typer.Option(
         "--allow-outside",
-        help="Read Markdown images outside the lesson's folder (off: counted, not opened).",
+        help="Read files outside the study's or lesson's folder: lessons, post-tests and "
+        "Markdown images that lead out (only for studies you trust; docs/limits.md).",
     ),
 ]
 Output = Annotated[
@@ -196,7 +208,7 @@ def check(
         _step_summary(formatter, reports, paths)
         return exit_status(reports, failed=sum(1 for r in results if r.error))
     formatter = get(Subject.REPORT, format)
-    loaded = load_study(study)
+    loaded = load_study(study, allow_outside=allow_outside)
     if against:
         from matcheck.api import check_against
 
@@ -218,6 +230,7 @@ def table(
         str, typer.Option("--format", "-f", help=_formats(Subject.METHODS))
     ] = "markdown",
     output: Output = None,
+    allow_outside: AllowOutside = False,
 ) -> int:
     """Write the equivalence table for the methods section (one column per condition)."""
     from matcheck.api import check_study
@@ -230,8 +243,8 @@ def table(
             f"--format {format} writes a binary file: give it with --output FILE"
             f"{formatter.extension}"
         )
-    loaded = load_study(study)
-    report = check_study(loaded)
+    loaded = load_study(study, allow_outside=allow_outside)
+    report = check_study(loaded, limits=_limits(allow_outside, None))
     built = methods_table(report, coverage_threshold=loaded.coverage_threshold)
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
     deliver(formatter, built, output, inputs)
@@ -361,35 +374,66 @@ def _step_summary(formatter: Formatter, reports: Sequence[Report], inputs: Seque
 
 
 def main(argv: Sequence[str] | None = None) -> int:
-    """Run the CLI; returns the exit status instead of raising SystemExit."""
-    import click
+    """Run the CLI; returns the exit status instead of raising SystemExit.
+
+    Every way out is one line on stderr: usage errors (the command-line library's own message)
+    and bad input exit 2, Ctrl-C 130, SIGTERM 143, a bug 3.
+    """
+    from matcheck.interrupt import Terminated, on_sigterm
+    from matcheck.report.escape import one_line
 
     args = list(sys.argv[1:] if argv is None else argv)
     _state["debug"] = "--debug" in args
+    on_sigterm()
     try:
         result = app(args=args, prog_name="matcheck", standalone_mode=False)
-    except click.exceptions.Exit as stop:
-        return int(stop.exit_code)
-    except click.ClickException as problem:
-        problem.show()
+    except _cli_exits() as stop:
+        return int(getattr(stop, "exit_code", EXIT_MATCHED))
+    except _cli_errors() as problem:
+        # Typer vendors its own copy of click; both raise the same kinds of exception.
+        sys.stderr.write(f"matcheck: error: {one_line(problem.format_message())}\n")
         return EXIT_INPUT
-    except click.exceptions.Abort:
+    except _cli_aborts():
         sys.stderr.write("matcheck: interrupted\n")
-        return EXIT_INPUT
+        return EXIT_INTERRUPTED
+    except Terminated:
+        sys.stderr.write("matcheck: terminated\n")
+        return EXIT_TERMINATED
     except MatcheckError as problem:
         if _state["debug"]:
             traceback.print_exc()
-        sys.stderr.write(f"matcheck: error: {problem}\n")
+        sys.stderr.write(f"matcheck: error: {one_line(str(problem))}\n")
         return problem.exit_code
     except Exception as bug:
         if _state["debug"]:
             traceback.print_exc()
         sys.stderr.write(
-            f"matcheck: internal error ({type(bug).__name__}: {bug}); this is a bug, please "
-            "report it with the input if you can (run with --debug for the traceback)\n"
+            f"matcheck: internal error ({type(bug).__name__}: {one_line(str(bug))}); this is a "
+            "bug, please report it with the input if you can (run with --debug for the "
+            "traceback)\n"
         )
         return EXIT_BUG
+    if result == EXIT_INTERRUPTED:  # Typer turns Ctrl-C into a silent return of 130
+        sys.stderr.write("matcheck: interrupted\n")
     return int(result) if isinstance(result, int) else EXIT_MATCHED
+
+
+def _cli_exits() -> tuple[type[BaseException], ...]:
+    import click
+
+    return (click.exceptions.Exit, typer.Exit)
+
+
+def _cli_errors() -> tuple[type[click.ClickException], type[typer.TyperException]]:
+    import click
+
+    return (click.ClickException, typer.TyperException)
+
+
+def _cli_aborts() -> tuple[type[BaseException], ...]:
+    import click
+
+    return (KeyboardInterrupt, click.exceptions.Abort, typer.Abort)
 
 
 __all__ = ["app", "main"]

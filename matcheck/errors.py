@@ -2,7 +2,8 @@
 
 Every problem matcheck can explain is a :class:`MatcheckError`. The CLI prints it as one line
 (``str(error)``) on stderr and exits with :data:`EXIT_INPUT`; anything else is a bug and exits
-with :data:`EXIT_BUG`.
+with :data:`EXIT_BUG`. Ctrl-C exits with :data:`EXIT_INTERRUPTED`, SIGTERM with
+:data:`EXIT_TERMINATED`, after worker processes and temporary folders are gone.
 """
 
 from __future__ import annotations
@@ -11,6 +12,10 @@ EXIT_MATCHED = 0
 EXIT_DIFFERS = 1
 EXIT_INPUT = 2
 EXIT_BUG = 3
+# Ended by a signal: 128 + the signal's number, the shell's convention (what ``$?`` shows for
+# a process killed by it), so scripts and CI see the same status either way.
+EXIT_INTERRUPTED = 130  # SIGINT (Ctrl-C)
+EXIT_TERMINATED = 143  # SIGTERM (``timeout``, a cancelled CI job)
 
 
 class MatcheckError(Exception):

@@ -35,8 +35,13 @@ class ReadLimits:
     # is refused before parsing: an XML tree takes many times its text in memory (a 60 MiB
     # document.xml took ~1 GB in python-docx here). A 300-page book has ~10-20 MiB of XML.
     max_xml_bytes: int = 32 * 1024 * 1024
-    # Wall-clock seconds to read one file (all formats). Enforced with SIGALRM, which only
-    # works in the main thread on POSIX; elsewhere there is no time limit. None: no limit.
+    # The longest run of characters without a space in a lesson's text. The longest English
+    # words have a few dozen letters and a long URL a few thousand characters; a 4 MB "word"
+    # counts as one word under max_words but costs the analysis minutes and a gigabyte.
+    max_token_chars: int = 10_000
+    # Wall-clock seconds for one lesson: reading it, analysing and measuring it (and, for a
+    # comparison, comparing the versions gets the same budget). Enforced with SIGALRM, which
+    # only works in the main thread on POSIX; elsewhere there is no time limit. None: none.
     max_read_seconds: float | None = 120.0
     # Markdown images that resolve outside the lesson's folder (``../``, absolute paths,
     # symlinks pointing out) are counted but not opened unless this is set.

@@ -57,13 +57,29 @@ def write_output(output: Path, text: str | bytes, inputs: Sequence[Path]) -> Non
 
 
 def refuse_inputs(output: Path, inputs: Sequence[Path], what: str) -> None:
-    """Refuse ``output`` when it is one of ``inputs``, also through a symbolic or hard link."""
+    """Refuse ``output`` when it is a file this run read (given in ``inputs``, or noted by a
+    reader in :mod:`matcheck.inputs`: lessons, their images, post-tests, study files), also
+    through a symbolic or hard link."""
+    from matcheck.inputs import read_so_far
+
     target = output.resolve()
-    for path in inputs:
-        if path.exists() and (
-            path.resolve() == target or (output.exists() and output.samefile(path))
-        ):
-            raise UsageError(f"{what} {output} is one of the input files; choose another path")
+    exists = output.exists()
+    for path in (*inputs, *read_so_far()):
+        try:
+            same = path.resolve() == target or (exists and path.exists() and output.samefile(path))
+        except (OSError, RuntimeError, ValueError):
+            continue
+        if same:
+            raise UsageError(
+                f"{what} {_shown(output)} is one of the input files (this run reads "
+                f"{_shown(path)}); choose another path"
+            )
+
+
+def _shown(path: Path) -> str:
+    from matcheck.report.escape import one_line
+
+    return one_line(str(path))
 
 
 def append_output(output: Path, text: str, inputs: Sequence[Path]) -> None:

@@ -8,7 +8,6 @@ what each pair may differ in.
 
 from __future__ import annotations
 
-import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -110,15 +109,20 @@ def _strings(path: Path, value: Any, where: str) -> tuple[str, ...]:
     return tuple(value)
 
 
-def load_study(path: Path, *, with_data: bool = True) -> Study:
+def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = False) -> Study:
     """Read and validate a study file; raises :class:`ConfigError` naming the key.
 
     ``with_data=False`` skips the ``[data]`` section: a past revision of the materials is
-    read without the learners' data, which are rarely under version control.
+    read without the learners' data, which are rarely under version control. Every file the
+    study names must be a regular file inside the study's folder (links followed) unless
+    ``allow_outside`` (matcheck/paths.py).
     """
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.errors import UsageError
+    from matcheck.inputs import note
     from matcheck.intent import expand_manipulated
+    from matcheck.paths import parse_study_toml, read_study_text, study_path
+    from matcheck.paths import shown as printable
 
     if path.is_dir():
         raise ConfigError(
@@ -126,23 +130,16 @@ def load_study(path: Path, *, with_data: bool = True) -> Study:
             "folder of studies",
             path=str(path),
         )
-    if not path.is_file():
-        raise ConfigError("no such study file", path=str(path))
     if path.suffix.lower() in _LESSON_SUFFIXES:
         raise ConfigError(
             f"is a lesson ({path.suffix}), not a study file; `compare` takes lesson files, "
             "`check` and `table` a study file (TOML; docs/study-file.md)",
             path=str(path),
         )
-    try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except UnicodeDecodeError:
-        raise ConfigError("the study file is not UTF-8 text", path=str(path)) from None
-    except tomllib.TOMLDecodeError as problem:
-        raise ConfigError(f"not valid TOML: {problem}", path=str(path)) from None
-    shown = str(path)
+    note(path)
+    data = parse_study_toml(read_study_text(path), path)
+    shown = printable(path)
     _check_keys(path, data, TOP_KEYS, "top level")
-    base = path.parent
     study = data.get("study", {})
     if not isinstance(study, dict):
         raise ConfigError("[study] must be a table", path=shown)
@@ -195,10 +192,10 @@ def load_study(path: Path, *, with_data: bool = True) -> Study:
             raise ConfigError(f"{where}.name is missing", path=shown)
         if "files" not in spec:
             raise ConfigError(f"{where}.files is missing", path=shown)
-        files = tuple(base / f for f in _strings(path, spec["files"], f"{where}.files"))
-        for file in files:
-            if not file.exists():
-                raise ConfigError(f"{where}.files: {file} does not exist", path=shown)
+        files = tuple(
+            study_path(path, f, f"{where}.files", allow_outside=allow_outside)
+            for f in _strings(path, spec["files"], f"{where}.files")
+        )
         levels = spec.get("levels", {})
         if not isinstance(levels, dict) or not all(isinstance(v, str) for v in levels.values()):
             raise ConfigError(f"{where}.levels must be a table of factor = level", path=shown)
@@ -263,19 +260,23 @@ def load_study(path: Path, *, with_data: bool = True) -> Study:
         raise ConfigError("[posttest] must be a table", path=shown)
     _check_keys(path, posttest, POSTTEST_KEYS, "[posttest]")
     post_files = (
-        tuple(base / f for f in _strings(path, posttest["files"], "posttest.files"))
+        tuple(
+            study_path(path, f, "posttest.files", allow_outside=allow_outside)
+            for f in _strings(path, posttest["files"], "posttest.files")
+        )
         if "files" in posttest
         else ()
     )
-    for file in post_files:
-        if not file.exists():
-            raise ConfigError(f"posttest.files: {file} does not exist", path=shown)
     threshold = posttest.get("coverage_threshold")
     if threshold is not None and (not isinstance(threshold, int | float) or not 0 < threshold <= 1):
         raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
 
     comparison = _comparison(path, data.get("comparison", {}), threshold)
-    learners = parse_data(path, data["data"]) if with_data and "data" in data else None
+    learners = (
+        parse_data(path, data["data"], allow_outside=allow_outside)
+        if with_data and "data" in data
+        else None
+    )
     study_ = Study(
         path=path,
         title=title,

@@ -333,3 +333,98 @@ def test_regression_file_name_with_a_newline(workdir: Path) -> None:
         read(path)
     assert "\n" not in str(caught.value)
     assert "two\\nlines.md" in str(caught.value)
+
+
+# -- study files and the post-test CSV -----------------------------------------------------------
+
+# Byte strings a hostile study would try: paths out of the folder, special files, a BOM,
+# control characters, TOML structure and deep nesting.
+_HOSTILE = st.sampled_from(
+    [
+        b"../",
+        b"/etc/passwd",
+        b"/dev/zero",
+        b"\xef\xbb\xbf",
+        b"\x00",
+        b"\x1b[31m",
+        b'"\n::error::x\n"',
+        b"[[conditions]]\n",
+        b"[" * 2000,
+        b"{ a = " * 200,
+        b"\r",
+        b"\xff\xfe",
+        b"\\u0000",
+    ]
+)
+_study_mutations = st.lists(
+    st.one_of(_mutation, st.tuples(st.just("insert"), _fraction, _HOSTILE)), min_size=1, max_size=6
+)
+
+
+@pytest.fixture(scope="module")
+def study_folder(tmp_path_factory: pytest.TempPathFactory) -> Path:
+    folder = tmp_path_factory.mktemp("study") / "demo"
+    shutil.copytree(DEMO, folder, ignore=shutil.ignore_patterns("*.json"))
+    return folder
+
+
+def _loads_or_refuses(load: Callable[[], Any], name: str) -> Any:
+    """Run ``load``: only a result or a one-line MatcheckError naming ``name`` may come out."""
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        try:
+            result = load()
+        except MatcheckError as error:
+            assert name in str(error), str(error)
+            assert "\n" not in str(error) and "\r" not in str(error)
+            result = error
+    assert [str(warning.message) for warning in caught] == []
+    return result
+
+
+@CI
+@given(mutations=_study_mutations)
+def test_fuzz_study_files(study_folder: Path, mutations: list[Mutation]) -> None:
+    _fuzz_study(study_folder, mutations)
+
+
+@pytest.mark.slow
+@LONG
+@given(mutations=_study_mutations)
+def test_fuzz_study_files_long(study_folder: Path, mutations: list[Mutation]) -> None:
+    _fuzz_study(study_folder, mutations)
+
+
+def _fuzz_study(study_folder: Path, mutations: list[Mutation]) -> None:
+    from matcheck.paths import inside
+    from matcheck.study import Study, load_study
+
+    path = study_folder / "fuzzed.toml"
+    path.write_bytes(mutate((DEMO / "study.toml").read_bytes(), mutations))
+    result = _loads_or_refuses(lambda: load_study(path), "fuzzed.toml")
+    if isinstance(result, Study):  # every file it names stays in the folder (docs/limits.md)
+        named = [*(f for c in result.conditions for f in c.files), *result.posttest]
+        assert all(inside(file, study_folder) and file.is_file() for file in named)
+
+
+@CI
+@given(mutations=_study_mutations)
+def test_fuzz_posttest_csv(study_folder: Path, mutations: list[Mutation]) -> None:
+    _fuzz_posttest(study_folder, mutations)
+
+
+@pytest.mark.slow
+@LONG
+@given(mutations=_study_mutations)
+def test_fuzz_posttest_csv_long(study_folder: Path, mutations: list[Mutation]) -> None:
+    _fuzz_posttest(study_folder, mutations)
+
+
+def _fuzz_posttest(study_folder: Path, mutations: list[Mutation]) -> None:
+    from matcheck.limits import DEFAULT_LIMITS
+    from matcheck.readers.posttest import read_posttest
+
+    path = study_folder / "fuzzed.csv"
+    path.write_bytes(mutate((DEMO / "posttest.csv").read_bytes(), mutations))
+    result = _loads_or_refuses(lambda: read_posttest(path, DEFAULT_LIMITS), "fuzzed.csv")
+    assert isinstance(result, list | MatcheckError)

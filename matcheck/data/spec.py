@@ -89,8 +89,11 @@ def _number(
     return float(value)
 
 
-def parse_data(path: Path, data: Any) -> DataSpec:
-    """Validate the ``[data]`` table of the study file at ``path``."""
+def parse_data(path: Path, data: Any, *, allow_outside: bool = False) -> DataSpec:
+    """Validate the ``[data]`` table of the study file at ``path``; every file must be a
+    regular file inside the study's folder unless ``allow_outside`` (matcheck/paths.py)."""
+    from matcheck.paths import study_path
+
     shown = str(path)
     if not isinstance(data, dict):
         raise ConfigError("[data] must be a table", path=shown)
@@ -104,14 +107,12 @@ def parse_data(path: Path, data: Any) -> DataSpec:
         raise ConfigError(
             "[data] needs files (the study's learners) or pilot (item scores)", path=shown
         )
-    base = path.parent
     found: dict[str, tuple[Path, ...]] = {}
     for key in ("files", "pilot"):
         names = _columns(data[key], f"data.{key}", shown) if key in data else ()
-        found[key] = tuple(base / name for name in names)
-        for file in found[key]:
-            if not file.is_file():
-                raise ConfigError(f"data.{key}: {file} does not exist", path=shown)
+        found[key] = tuple(
+            study_path(path, name, f"data.{key}", allow_outside=allow_outside) for name in names
+        )
     for key in ("id", "condition", "time", "completed", "sheet"):
         if key in data and not (isinstance(data[key], str) and data[key]):
             raise ConfigError(f"data.{key} must be a column name", path=shown)

@@ -25,6 +25,9 @@ class Table:
 
 
 def read_table(path: Path, sheet: str | None = None) -> Table:
+    from matcheck.inputs import note
+
+    note(path)  # an input of the run: no output may replace it
     if not path.is_file():
         raise DataError("no such data file", path=str(path))
     suffix = path.suffix.lower()

@@ -66,6 +66,16 @@ READING_TIME = MeasureSpec(
 SPECS = (WORDS, SENTENCES, PARAGRAPHS, CHARACTERS, READING_TIME)
 
 
+def user_perceived_characters(text: str) -> int:
+    """Characters as a reader sees them, spaces excluded: block text is already NFKC
+    (readers/builder.py), and a combining mark that has no precomposed form with its base
+    (UAX #15) counts with that base, not on its own. This approximates grapheme clusters
+    (UAX #29) for marks; joiners are already removed by the readers."""
+    import unicodedata
+
+    return sum(1 for char in text if char != " " and unicodedata.category(char) not in ("Mn", "Me"))
+
+
 def measure_length(analysis: Analysis, settings: Settings) -> Iterator[Measurement]:
     words = analysis.words()
     yield Measurement(WORDS, float(len(words)))
@@ -73,7 +83,7 @@ def measure_length(analysis: Analysis, settings: Settings) -> Iterator[Measureme
     paragraphs = analysis.document.blocks_of(BlockKind.PARAGRAPH)
     yield Measurement(PARAGRAPHS, float(len(paragraphs)))
     characters = sum(
-        len(item.block.text) - item.block.text.count(" ")
+        user_perceived_characters(item.block.text)
         for item in analysis.blocks
         if item.block.kind not in (BlockKind.CAPTION, BlockKind.CODE)
     )

@@ -114,6 +114,9 @@ def _printable(text: str) -> str:
 
 
 def _read(path: Path, limits: ReadLimits) -> Document:
+    from matcheck.inputs import note
+
+    note(path)
     shown = str(path)
     try:
         if not path.exists():
@@ -143,6 +146,9 @@ def _read(path: Path, limits: ReadLimits) -> Document:
     with deadline(limits.max_read_seconds, shown):
         reader = READERS[fmt]
         document = reader.read(path, limits)
+    from matcheck.readers.wordlimit import refuse_long_tokens
+
+    refuse_long_tokens((block.text for block in document.blocks), limits, shown)
     document = _flag_huge_images(document, limits)
     if reader.cannot_show:
         # A reader may add what one file cannot show (an untagged PDF has no alt text).

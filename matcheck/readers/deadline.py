@@ -35,8 +35,11 @@ def _can_alarm() -> bool:
 
 
 @contextmanager
-def deadline(seconds: float | None, path: str) -> Iterator[None]:
-    """Raise :class:`LimitExceeded` naming ``max_read_seconds`` if the body runs too long."""
+def deadline(seconds: float | None, path: str, what: str = "reading the file") -> Iterator[None]:
+    """Raise :class:`LimitExceeded` naming ``max_read_seconds`` if the body runs too long.
+
+    Nested deadlines: only the outermost one runs a timer (an inner one finds the timer set and
+    leaves it alone), so a whole per-file run (read, analyse, measure) can be one budget."""
     if seconds is None or seconds <= 0 or not _can_alarm():
         yield
         return
@@ -55,7 +58,7 @@ def deadline(seconds: float | None, path: str) -> Iterator[None]:
         # Also when the alarm fell between the end of the body and the timer's reset: the
         # outer handler catches it either way, so it never escapes as a BaseException.
         raise LimitExceeded(
-            f"reading the file took longer than max_read_seconds ({seconds:g} s); stopped",
+            f"{what} took longer than max_read_seconds ({seconds:g} s); stopped",
             path=path,
             hint="raise it with --limit max_read_seconds=N if this is really a lesson",
         ) from None

@@ -9,6 +9,7 @@ warning so a mis-decoded file does not pass unnoticed.
 from __future__ import annotations
 
 import codecs
+import re
 from pathlib import Path
 
 from matcheck.errors import CorruptFile, InputError
@@ -48,6 +49,20 @@ def decode_lesson_text(data: bytes, path: Path) -> tuple[str, list[str]]:
                     path=str(path),
                 ) from None
             return _normalize_newlines(text), warnings
+    from matcheck.readers.wide import bomless_wide_codec
+
+    wide = bomless_wide_codec(data[:8192])
+    if wide is not None:
+        try:
+            text = data.decode(wide)
+        except UnicodeDecodeError as error:
+            raise CorruptFile(
+                f"looks like {wide.upper()} text without a byte-order mark but is not valid "
+                f"{wide.upper()} (at byte {error.start})",
+                path=str(path),
+            ) from None
+        warnings.append(f"no byte-order mark; read as {wide.upper()} (from its zero bytes)")
+        return _normalize_newlines(text), warnings
     data = data.removeprefix(codecs.BOM_UTF8)
     try:
         text = data.decode("utf-8")
@@ -62,8 +77,15 @@ def decode_lesson_text(data: bytes, path: Path) -> tuple[str, list[str]]:
     return _normalize_newlines(text), warnings
 
 
+# Every line break Unicode knows (Unicode Standard 5.8; docs/references.md §22) becomes \n:
+# a run of CRs before LF (CR CR LF, from a file converted twice) is one break, a lone CR is
+# one, NEL, LS and VT are one; PS (U+2029) separates paragraphs, so it is a blank line. A form
+# feed stays: the text reader ends a paragraph there (a page break).
+_BREAKS = re.compile("\r+\n|[\r\x0b\x85\u2028]")
+
+
 def _normalize_newlines(text: str) -> str:
-    return text.replace("\r\n", "\n").replace("\r", "\n")
+    return _BREAKS.sub("\n", text).replace("\u2029", "\n\n")
 
 
 def read_lesson_text(path: Path, limits: ReadLimits, label: str) -> tuple[str, list[str]]:

@@ -52,7 +52,11 @@ def read_docx(path: Path, limits: ReadLimits) -> Document:
 
     shown = str(path)
     _check_archive(path, limits, shown)
-    package = _open(path, shown)
+    with zipfile.ZipFile(path) as archive:
+        from matcheck.readers.docx_repair import missing_images
+
+        lost = missing_images(archive)
+    package = _open(path, shown, lost)
     main = package.main_document_part
     styles_part = _related(main, RT.STYLES)
     styles = StyleSheet(None if styles_part is None else _element(styles_part, shown))
@@ -74,6 +78,8 @@ def read_docx(path: Path, limits: ReadLimits) -> Document:
     except RecursionError as error:
         raise CorruptFile("the DOCX nests its content too deeply to read", path=shown) from error
     _record_exclusions(package, builder, shown)
+    for part in lost:
+        builder.warn(f"the image part {part} is missing from the file; its figure is unreadable")
     return builder.build()
 
 
@@ -212,11 +218,16 @@ def _refuse_dtds(archive: zipfile.ZipFile, infos: list[zipfile.ZipInfo], shown: 
             raise CorruptFile(f"the DOCX part {info.filename} declares a DTD", path=shown)
 
 
-def _open(path: Path, shown: str) -> Package:
+def _open(path: Path, shown: str, lost: list[str]) -> Package:
     from docx.package import Package
 
     try:
-        package = Package.open(str(path))
+        if lost:  # read what is there; each lost image becomes an empty, unreadable part
+            from matcheck.readers.docx_repair import with_empty_parts
+
+            package = Package.open(with_empty_parts(path, lost))
+        else:
+            package = Package.open(str(path))
         main = package.main_document_part
     except MemoryError:
         raise

@@ -104,6 +104,9 @@ class ImageSandbox:
             )
         if not exists:
             return _unreadable(source, "not found")
+        from matcheck.inputs import note
+
+        note(target)  # an input of the run: no output may replace it
         return _measured(source, image_size(real))
 
 

@@ -59,8 +59,10 @@ def read_posttest(path: Path, limits: ReadLimits) -> list[PostTestItem]:
 
 
 def _read_csv(path: Path, limits: ReadLimits) -> list[PostTestItem]:
+    from matcheck.inputs import note
     from matcheck.readers.decode import decode_lesson_text
 
+    note(path)
     shown = str(path)
     if not path.is_file():
         raise InputError("no such file" if not path.exists() else "is not a file", path=shown)

@@ -120,7 +120,12 @@ def _looks_binary(head: bytes) -> bool:
             # absorbs a code unit cut off at the end of the head.
             return _control_share([ord(char) for char in head.decode(codec, "replace")]) > 0.05
     if b"\x00" in head:
-        return True
+        from matcheck.readers.wide import bomless_wide_codec
+
+        wide = bomless_wide_codec(head)
+        if wide is None:
+            return True
+        return _control_share([ord(char) for char in head.decode(wide, "replace")]) > 0.05
     return _control_share(head) > 0.05
 
 

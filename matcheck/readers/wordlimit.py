@@ -8,6 +8,7 @@ text comes out (:class:`WordBudget`).
 from __future__ import annotations
 
 import re
+from collections.abc import Iterable
 
 from matcheck.errors import LimitExceeded
 from matcheck.limits import ReadLimits
@@ -17,6 +18,7 @@ from matcheck.limits import ReadLimits
 # image) needs a word or a mark of its own, so "|a|a|a" or "*-**-*" cannot hide a million
 # blocks in a few "words". Prose has ~0.15 marks per word, so it over-counts a little.
 _WORD = re.compile(r"[^\W_]+|[^\w\s]|_")
+_RUN = re.compile(r"\S+")
 
 
 def raw_word_count(text: str) -> int:
@@ -31,6 +33,21 @@ def refuse_words(count: int, limits: ReadLimits, path: str, what: str, unit: str
             f"the {what} has more than {limits.max_words:,} {unit}, above max_words",
             path=path,
             hint="raise it with --limit max_words=N if this is really a lesson",
+        )
+
+
+def refuse_long_tokens(texts: Iterable[str], limits: ReadLimits, path: str) -> None:
+    """Raise :class:`LimitExceeded` naming ``max_token_chars`` if any text holds a run of more
+    than that many characters without white space (a linear scan, before any analysis)."""
+    # \S+ runs are found left to right without backtracking into a run, so this is linear;
+    # a search for \S{N+1} would retry at every character of every run (quadratic).
+    limit = limits.max_token_chars
+    if any(m.end() - m.start() > limit for text in texts for m in _RUN.finditer(text)):
+        raise LimitExceeded(
+            f"the text holds a 'word' of more than {limits.max_token_chars:,} characters "
+            "without a space, above max_token_chars",
+            path=path,
+            hint="raise it with --limit max_token_chars=N if this is really a lesson",
         )
 
 

@@ -18,15 +18,16 @@ from matcheck.report.common import (
     format_difference,
     format_tolerance,
 )
+from matcheck.report.escape import terminal, workflow_data, workflow_property
 from matcheck.report.formatter import RenderOptions
 
 
 def _data(text: str) -> str:
-    return text.replace("%", "%25").replace("\r", "%0D").replace("\n", "%0A")
+    return workflow_data(terminal(text))
 
 
 def _property(text: str) -> str:
-    return _data(text).replace(":", "%3A").replace(",", "%2C")
+    return workflow_property(terminal(text))
 
 
 def _relative(path: str) -> str:

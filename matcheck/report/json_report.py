@@ -138,4 +138,6 @@ def _study_data(report: Report) -> dict[str, Any]:
 
 
 def render_json(report: Report, options: RenderOptions | None = None) -> str:
-    return json.dumps(report_dict(report), indent=2, ensure_ascii=False) + "\n"
+    from matcheck.report.escape import json_text
+
+    return json_text(json.dumps(report_dict(report), indent=2, ensure_ascii=False)) + "\n"

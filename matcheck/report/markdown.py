@@ -11,6 +11,7 @@ from matcheck.report.common import (
     format_value,
     summary_counts,
 )
+from matcheck.report.escape import markdown, markdown_code
 from matcheck.report.formatter import RenderOptions
 from matcheck.report.table import ordered_with_echoes
 
@@ -22,8 +23,10 @@ ICONS = {
 }
 
 
-def _cell(text: str) -> str:
-    return text.replace("|", "\\|").replace("\n", " ")
+# User text (names, warnings, quoted lesson text) is escaped (report/escape.py), so raw HTML
+# and Markdown syntax in it is shown, never rendered.
+_cell = markdown
+_code = markdown_code
 
 
 def _design(report: Report) -> list[str]:
@@ -50,7 +53,7 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
     lines.append(
         f"{verdict} {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
         f"{counts['intended']} intended, {counts['matched']} matched (root findings). "
-        f"Reference: `{report.reference}`"
+        f"Reference: {_code(report.reference)}"
         + (
             f"; manipulated: {', '.join(f'`{m}`' for m in report.manipulated)}."
             if report.manipulated
@@ -61,9 +64,9 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
     for pairing in report.pairs():
         name, reference = pairing.condition, pairing.reference
         findings = list(report.findings_of(pairing))
-        heading = f"### `{reference}` vs `{name}`"
+        heading = f"### {_code(reference)} vs {_code(name)}"
         if pairing.factor:
-            heading += f" (contrast of {pairing.factor})"
+            heading += f" (contrast of {_cell(pairing.factor)})"
         lines += [heading, ""]
         header = [
             f"| Group | Measure | {_cell(reference)} | {_cell(name)} "
@@ -110,15 +113,15 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
 
         lines += data_markdown(report)
     if report.revision:
-        lines += [f"### Since `{report.revision}`", ""]
+        lines += [f"### Since {_code(report.revision)}", ""]
         lines += [f"- {_cell(describe_regression(r))}" for r in report.regressions] or [
-            f"Nothing changed beyond tolerance since `{report.revision}`."
+            f"Nothing changed beyond tolerance since {_code(report.revision)}."
         ]
         lines.append("")
     for warning in report.warnings:
-        lines.append(f"> ⚠️ {warning}")
+        lines.append(f"> ⚠️ {_cell(warning)}")
     for condition in report.conditions:
         for warning in condition.warnings:
-            lines.append(f"> ⚠️ `{condition.name}`: {warning}")
+            lines.append(f"> ⚠️ {_code(condition.name)}: {_cell(warning)}")
     lines += ["", f"_{report.notes[0]}_" if report.notes else ""]
     return "\n".join(lines).rstrip() + "\n"

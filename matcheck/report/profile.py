@@ -60,7 +60,9 @@ def profiles_dict(profiles: Sequence[Profile]) -> dict[str, Any]:
 
 
 def render_profiles_json(profiles: Sequence[Profile], options: RenderOptions | None = None) -> str:
-    return json.dumps(profiles_dict(profiles), indent=2, ensure_ascii=False) + "\n"
+    from matcheck.report.escape import json_text
+
+    return json_text(json.dumps(profiles_dict(profiles), indent=2, ensure_ascii=False)) + "\n"
 
 
 def render_profiles_table(
@@ -68,12 +70,14 @@ def render_profiles_table(
 ) -> None:
     from rich.table import Table
 
+    from matcheck.report.escape import rich as esc
+
     table = Table(header_style="bold")
     table.add_column("Group")
     table.add_column("Measure")
     table.add_column("Unit")
     for profile in profiles:
-        table.add_column(profile.document.name, justify="right")
+        table.add_column(esc(profile.document.name), justify="right")
     ids: dict[str, Measurement] = {}
     for profile in profiles:
         for each in profile.measurements:
@@ -86,7 +90,7 @@ def render_profiles_table(
             if m is None:
                 cells.append("—")
             elif m.items:
-                shown = ", ".join(term for term, _ in m.items[:TERMS_SHOWN])
+                shown = esc(", ".join(term for term, _ in m.items[:TERMS_SHOWN]))
                 cells.append(shown + (" …" if len(m.items) > TERMS_SHOWN else "") or "—")
             else:
                 cells.append(format_value(m.value, m.spec.unit, m.spec.id))
@@ -102,11 +106,12 @@ def render_profiles_table(
     console.print(table)
     for profile in profiles:
         document = profile.document
+        name = esc(document.name)
         for warning in document.warnings:
-            console.print(f"[yellow]warning[/yellow] {document.name}: {warning}", highlight=False)
+            console.print(f"[yellow]warning[/yellow] {name}: {esc(warning)}", highlight=False)
         if document.excluded:
             console.print(
-                f"[dim]{document.name}: left out of the lesson text: "
-                f"{'; '.join(document.excluded)}[/dim]",
+                f"[dim]{name}: left out of the lesson text: "
+                f"{esc('; '.join(document.excluded))}[/dim]",
                 highlight=False,
             )

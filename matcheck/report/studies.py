@@ -27,14 +27,20 @@ def render_json(results: Sequence[StudyResult], options: RenderOptions | None = 
             for result in results
         ],
     }
-    return json.dumps(data, indent=2, ensure_ascii=False) + "\n"
+    from matcheck.report.escape import json_text
+
+    return json_text(json.dumps(data, indent=2, ensure_ascii=False)) + "\n"
 
 
 def render_markdown(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
+    from matcheck.report.escape import markdown
     from matcheck.report.markdown import render_markdown as one
 
     return "\n".join(
-        one(r.report) if r.report is not None else f"## {r.path}\n\n❗ {r.error}\n" for r in results
+        one(r.report)
+        if r.report is not None
+        else f"## {markdown(r.path)}\n\n❗ {markdown(r.error or '')}\n"
+        for r in results
     )
 
 
@@ -51,8 +57,9 @@ def render_github(results: Sequence[StudyResult], options: RenderOptions | None 
 def render_summary(
     results: Sequence[StudyResult], console: Console, options: RenderOptions | None = None
 ) -> None:
-    from rich.markup import escape
     from rich.table import Table
+
+    from matcheck.report.escape import rich as escape
 
     table = Table(title="Studies", title_justify="left", header_style="bold")
     for column in ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Problem"):

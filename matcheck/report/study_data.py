@@ -77,6 +77,9 @@ def render_text(report: Report, console: Console) -> None:
     from rich import box
     from rich.table import Table
 
+    from matcheck.report.escape import rich as esc
+    from matcheck.report.escape import terminal
+
     data = report.data
     if data is None:
         return
@@ -86,56 +89,60 @@ def render_text(report: Report, console: Console) -> None:
             box=box.SIMPLE_HEAD,
             header_style="bold",
             padding=(0, 1, 0, 0),
-            title=f"Baseline equivalence (reference {data.reference})",
+            title=f"Baseline equivalence (reference {esc(data.reference)})",
             title_justify="left",
         )
         for index, column in enumerate(BASELINE_HEADER):
             table.add_column(
                 column, justify="right" if 2 <= index <= 5 else "left", no_wrap=index < 6
             )
-        for cells in baseline_cells(data):
-            table.add_row(*cells)
+        for cells in baseline_cells(data):  # names from the data files: shown as written
+            table.add_row(*map(esc, cells))
         console.print(table)
     if data.attrition_sentence:
-        console.print(data.attrition_sentence, highlight=False)
+        console.print(esc(data.attrition_sentence), highlight=False)
     for instrument in data.instruments:
-        console.print(_instrument_line(instrument), highlight=False)
+        console.print(esc(_instrument_line(instrument)), highlight=False)
         table = Table(box=box.SIMPLE_HEAD, header_style="bold", padding=(0, 1, 0, 0))
         for index, column in enumerate(ITEM_HEADER):
             table.add_column(column, justify="right" if index in (1, 2) else "left")
         for cells in _item_cells(instrument):
-            table.add_row(*cells)
+            table.add_row(*map(esc, cells))
         console.print(table)
         for finding in instrument_findings(report):
             if finding.condition == instrument.source and finding.status is not Status.MATCHED:
                 console.print(
-                    f"  {finding.status.value} {finding.dimension}: {finding.reason}",
+                    terminal(f"  {finding.status.value} {finding.dimension}: {finding.reason}"),
                     highlight=False,
                     markup=False,
                 )
                 for item in finding.evidence:
-                    console.print(f"    • {item.text}", highlight=False, markup=False)
+                    console.print(f"    • {terminal(item.text)}", highlight=False, markup=False)
     console.print()
 
 
 def _md(text: str) -> str:
-    return text.replace("|", "\\|")
+    from matcheck.report.escape import markdown
+
+    return markdown(text)
 
 
 def render_markdown(report: Report) -> list[str]:
+    from matcheck.report.escape import markdown_code
+
     data = report.data
     if data is None:
         return []
     lines = ["### The study's data", "", "_Aggregates of the learners' data._", ""]
     if data.baseline:
-        lines += [f"Baseline equivalence (reference `{data.reference}`):", ""]
+        lines += [f"Baseline equivalence (reference {markdown_code(data.reference)}):", ""]
         lines += ["| " + " | ".join(BASELINE_HEADER) + " |", "|---|---|--:|--:|--:|--:|---|"]
         lines += ["| " + " | ".join(_md(c) for c in cells) + " |" for cells in baseline_cells(data)]
         lines.append("")
     if data.attrition_sentence:
-        lines += [data.attrition_sentence, ""]
+        lines += [_md(data.attrition_sentence), ""]
     for instrument in data.instruments:
-        lines += [_instrument_line(instrument) + ".", ""]
+        lines += [_md(_instrument_line(instrument)) + ".", ""]
         lines += ["| " + " | ".join(ITEM_HEADER) + " |", "|---|--:|--:|---|"]
         lines += [
             "| " + " | ".join(_md(c) for c in cells) + " |" for cells in _item_cells(instrument)

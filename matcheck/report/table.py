@@ -14,6 +14,8 @@ from matcheck.report.common import (
     sorted_findings,
     summary_counts,
 )
+from matcheck.report.escape import rich as esc
+from matcheck.report.escape import terminal
 from matcheck.report.formatter import RenderOptions
 
 if TYPE_CHECKING:
@@ -45,11 +47,11 @@ def ordered_with_echoes(findings: list[Finding]) -> list[tuple[Finding, bool]]:
 
 
 def _pair_title(pairing: Pairing) -> str:
-    title = f"{pairing.reference} (reference) vs {pairing.condition}"
+    title = f"{esc(pairing.reference)} (reference) vs {esc(pairing.condition)}"
     if pairing.factor:
-        title += f" — contrast of {pairing.factor}"
+        title += f" — contrast of {esc(pairing.factor)}"
     if pairing.manipulated:
-        title += f"; manipulated: {', '.join(pairing.manipulated)}"
+        title += f"; manipulated: {esc(', '.join(pairing.manipulated))}"
     return title
 
 
@@ -74,8 +76,8 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
         )
         table.add_column("Verdict", no_wrap=True, width=12)
         table.add_column("Measure", no_wrap=True, overflow="ellipsis")
-        table.add_column(_short(reference), justify="right", no_wrap=True, max_width=10)
-        table.add_column(_short(name), justify="right", no_wrap=True, max_width=10)
+        table.add_column(esc(_short(reference)), justify="right", no_wrap=True, max_width=10)
+        table.add_column(esc(_short(name)), justify="right", no_wrap=True, max_width=10)
         table.add_column("Diff.", justify="right", no_wrap=True, width=8)
         table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
         for finding, is_echo in ordered_with_echoes(findings):
@@ -109,10 +111,10 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
                     highlight=False,
                 )
                 if finding.status is Status.INCONCLUSIVE:
-                    console.print(f"  {finding.reason}", highlight=False)
+                    console.print(f"  {esc(finding.reason or '')}", highlight=False)
                 for item in finding.evidence[:MAX_EVIDENCE_LINES]:
                     line = describe_evidence(item, (finding.reference, finding.condition))
-                    console.print(f"  • {line}", highlight=False, markup=False)
+                    console.print(f"  • {terminal(line)}", highlight=False, markup=False)
                 if len(finding.evidence) > MAX_EVIDENCE_LINES:
                     extra = len(finding.evidence) - MAX_EVIDENCE_LINES
                     console.print(f"  … and {extra} more (see --format json)", highlight=False)
@@ -122,14 +124,15 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
 
         render_text(report, console)
     for warning in report.warnings:
-        console.print(f"[yellow]warning[/yellow] {warning}", highlight=False)
+        console.print(f"[yellow]warning[/yellow] {esc(warning)}", highlight=False)
     for condition in report.conditions:
+        name = esc(condition.name)
         for warning in condition.warnings:
-            console.print(f"[yellow]warning[/yellow] {condition.name}: {warning}", highlight=False)
+            console.print(f"[yellow]warning[/yellow] {name}: {esc(warning)}", highlight=False)
         if condition.excluded:
             console.print(
-                f"[dim]{condition.name}: left out of the lesson text: "
-                f"{'; '.join(condition.excluded)}[/dim]",
+                f"[dim]{name}: left out of the lesson text: "
+                f"{esc('; '.join(condition.excluded))}[/dim]",
                 highlight=False,
             )
     if report.spreads:
@@ -199,11 +202,12 @@ def _render_changes(report: Report, console: Console) -> None:
     from rich import box
     from rich.table import Table
 
-    console.print(f"[bold]Since {report.revision}[/bold]")
+    revision = esc(report.revision or "")
+    console.print(f"[bold]Since {revision}[/bold]")
     if not report.regressions:
-        console.print(f"  nothing changed beyond tolerance since {report.revision}")
+        console.print(f"  nothing changed beyond tolerance since {revision}")
     for regression in report.regressions:
-        line = describe_regression(regression)
+        line = terminal(describe_regression(regression))
         console.print(f"  • {line}", highlight=False, markup=False)
     changed = [f for f in report.changes if f.status is not Status.MATCHED and f.caused_by is None]
     if not changed:
@@ -214,7 +218,7 @@ def _render_changes(report: Report, console: Console) -> None:
         table.add_column(column, no_wrap=True)
     for finding in changed:
         table.add_row(
-            finding.condition,
+            esc(finding.condition),
             finding.name,
             format_value(finding.values.get(finding.reference), finding.unit, finding.dimension),
             format_value(finding.values.get(finding.condition), finding.unit, finding.dimension),

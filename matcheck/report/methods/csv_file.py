@@ -15,11 +15,17 @@ def render_csv(table: MethodsTable, options: RenderOptions | None = None) -> str
     Every row has the same number of fields, so spreadsheets and ``csv.reader`` read it as is;
     a reader that wants only the data drops the row whose first field is ``Note.``.
     """
+    from matcheck.report.escape import csv_cell
+
     buffer = io.StringIO()
     writer = csv.writer(buffer)
     width = len(table.header) + 1
-    writer.writerow(("Group", *table.header))
+    # Text that can come from a study (condition names in the header, the note) must not
+    # become a formula in a spreadsheet (escape.csv_cell); the values are matcheck's own
+    # numbers, such as +5.9%, which a spreadsheet should read as numbers.
+    writer.writerow([csv_cell(cell) for cell in ("Group", *table.header)])
     for row in table.rows:
-        writer.writerow((row.group_label, row.label, *row.values, row.difference, row.verdict))
-    writer.writerow(("Note.", table.note, *([""] * (width - 2))))
+        label = (csv_cell(row.group_label), csv_cell(row.label))
+        writer.writerow((*label, *row.values, row.difference, row.verdict))
+    writer.writerow(("Note.", csv_cell(table.note), *([""] * (width - 2))))
     return buffer.getvalue()

@@ -29,7 +29,11 @@ _LATEX = str.maketrans(
 
 
 def escape_latex(text: str) -> str:
-    return text.translate(_LATEX)
+    # Control characters first become visible escapes (report/escape.py), whose backslash
+    # the table then escapes: LaTeX cannot typeset them and a terminal must not receive them.
+    from matcheck.report.escape import terminal
+
+    return terminal(text).translate(_LATEX)
 
 
 def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> str:

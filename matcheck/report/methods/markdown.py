@@ -7,7 +7,9 @@ from matcheck.report.methods.model import MethodsTable
 
 
 def _md(text: str) -> str:
-    return text.replace("|", "\\|").replace("\n", " ")
+    from matcheck.report.escape import markdown
+
+    return markdown(text)
 
 
 def render_markdown(table: MethodsTable, options: RenderOptions | None = None) -> str:

@@ -56,4 +56,6 @@ def render_text(table: MethodsTable, options: RenderOptions | None = None) -> st
 
         sentences.append(methods_sentence(table.data))
     sample = f"\n\n{table.sample_size}" if table.sample_size else ""
-    return " ".join(s for s in sentences if s) + sample + "\n"
+    from matcheck.report.escape import terminal
+
+    return terminal(" ".join(s for s in sentences if s) + sample) + "\n"

@@ -43,11 +43,40 @@ _AFTER_TC_BORDERS = (
 )
 
 
+def _xml_safe(table: MethodsTable) -> MethodsTable:
+    """The table without characters a Word document cannot hold (escape.xml_text)."""
+    from dataclasses import replace
+
+    from matcheck.report.escape import xml_text
+
+    def clean(texts: tuple[str, ...]) -> tuple[str, ...]:
+        return tuple(xml_text(text) for text in texts)
+
+    rows = tuple(
+        replace(
+            row,
+            label=xml_text(row.label),
+            values=clean(row.values),
+            difference=xml_text(row.difference),
+            verdict=xml_text(row.verdict),
+        )
+        for row in table.rows
+    )
+    return replace(
+        table,
+        title=xml_text(table.title),
+        columns=clean(table.columns),
+        rows=rows,
+        notes=clean(table.notes),
+    )
+
+
 def render_docx(table: MethodsTable, options: RenderOptions | None = None) -> bytes:
     """The table as a Word document (its bytes) in APA 7 table style."""
     from docx import Document
     from docx.enum.text import WD_ALIGN_PARAGRAPH
 
+    table = _xml_safe(table)
     document = Document()
     document.core_properties.title = table.title
     document.add_paragraph().add_run(f"Table {table.number}").bold = True
