@@ -5,14 +5,17 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from matcheck.findings import Finding, Pairing, Report, Status
+from matcheck.identity import finding_id
 from matcheck.report.common import (
+    counts_sentence,
+    describe_acceptance,
     describe_evidence,
     describe_regression,
     format_difference,
     format_tolerance,
     format_value,
+    review_split,
     sorted_findings,
-    summary_counts,
 )
 from matcheck.report.formatter import RenderOptions
 
@@ -22,6 +25,7 @@ if TYPE_CHECKING:
 STYLES = {
     Status.DIFFERS: "bold red",
     Status.INCONCLUSIVE: "yellow",
+    Status.ACCEPTED: "blue",
     Status.INTENDED: "cyan",
     Status.MATCHED: "green",
 }
@@ -78,6 +82,7 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
         table.add_column(_short(name), justify="right", no_wrap=True, max_width=10)
         table.add_column("Diff.", justify="right", no_wrap=True, width=8)
         table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
+        table.add_column("Id", no_wrap=True, width=10)
         for finding, is_echo in ordered_with_echoes(findings):
             if not show_matched and finding.status is Status.MATCHED:
                 continue
@@ -89,6 +94,7 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
                 format_value(finding.values.get(name), finding.unit, finding.dimension),
                 format_difference(finding, short=True),
                 format_tolerance(finding, short=True),
+                finding_id(finding),
                 style=STYLES[finding.status] if finding.status is not Status.MATCHED else None,
             )
         console.print(table)
@@ -98,7 +104,8 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
         located = [
             f
             for f in sorted_findings(findings)
-            if f.status is not Status.MATCHED and (f.evidence or f.status is Status.INCONCLUSIVE)
+            if f.status is not Status.MATCHED
+            and (f.evidence or f.status in (Status.INCONCLUSIVE, Status.ACCEPTED))
         ]
         if located:
             console.print("[bold]Where[/bold]")
@@ -110,6 +117,9 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
                 )
                 if finding.status is Status.INCONCLUSIVE:
                     console.print(f"  {finding.reason}", highlight=False)
+                elif finding.status is Status.ACCEPTED:
+                    line = describe_acceptance(finding)
+                    console.print(f"  {line}", highlight=False, markup=False)
                 for item in finding.evidence[:MAX_EVIDENCE_LINES]:
                     line = describe_evidence(item, (finding.reference, finding.condition))
                     console.print(f"  • {line}", highlight=False, markup=False)
@@ -137,15 +147,13 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
     _render_design(report, console)
     if report.revision:
         _render_changes(report, console)
-    counts = summary_counts(report)
     verdict = (
         "[bold red]possible confounds found[/]"
         if report.differs
         else "[bold green]no differences beyond tolerance[/]"
     )
     console.print(
-        f"{verdict}: {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
-        f"{counts['intended']} intended, {counts['matched']} matched "
+        f"{verdict}: {counts_sentence(report)} "
         f"(root findings; reading rate {report.words_per_minute:g} words/min)."
     )
     for note in report.notes:
@@ -200,6 +208,14 @@ def _render_changes(report: Report, console: Console) -> None:
     from rich.table import Table
 
     console.print(f"[bold]Since {report.revision}[/bold]")
+    new, present = review_split(report)
+    for label, findings in (("new", new), (f"already at {report.revision}", present)):
+        for finding in findings:
+            line = (
+                f"{label}: {finding.condition} vs {finding.reference}: {finding.name} differs "
+                f"({format_difference(finding)}) [{finding_id(finding)}]"
+            )
+            console.print(f"  • {line}", highlight=False, markup=False)
     if not report.regressions:
         console.print(f"  nothing changed beyond tolerance since {report.revision}")
     for regression in report.regressions:
