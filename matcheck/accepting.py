@@ -51,7 +51,7 @@ def find_finding(report: Report, wanted: str, study: Path) -> Finding:
 
 
 def toml_string(text: str) -> str:
-    """A TOML basic string (the escapes of TOML 1.0)."""
+    """A TOML basic string (the escapes of TOML 1.0, docs/references.md §22)."""
     escaped = []
     for char in text:
         if char == "\\":

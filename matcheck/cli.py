@@ -354,7 +354,7 @@ def hook(
     from matcheck.staged import staged_files, studies_touched
 
     formatter = get(Subject.STUDIES, format)
-    folder = Path.cwd()
+    folder = Path(".")  # pre-commit runs hooks from the repository's root
     changed = list(files) if files else staged_files(folder)
     studies = find_studies(folder)
     chosen = studies_touched(studies, changed)
@@ -371,6 +371,16 @@ def hook(
     )
     results = check_all(chosen, jobs=jobs)
     reports = [r.report for r in results if r.report is not None]
+    if formatter.console:  # on a terminal: what differs in each study, then the summary
+        from rich.console import Console
+
+        console = Console()
+        for result in results:
+            if result.report is not None and result.report.differs:
+                console.rule(result.path)
+                get(Subject.REPORT, "table").load()(
+                    result.report, console, RenderOptions(show_matched=False)
+                )
     deliver(formatter, results, None, chosen)
     return exit_status(reports, failed=sum(1 for r in results if r.error))
 

@@ -2,8 +2,9 @@
 
 A study's files are its study file, every condition's files and its post-test files
 (``conditions[].files``, ``posttest.files``, relative to the study file). pre-commit passes
-the staged files it selected; without them, the hook asks Git for the staged files
-(``git diff --cached --name-only``), so it also works as a plain Git hook.
+the staged files it selected (``pass_filenames``, docs/references.md §22); without them, the
+hook asks Git for the staged files (``git diff --cached --name-only``), so it also works as a
+plain Git hook.
 """
 
 from __future__ import annotations

@@ -8,7 +8,7 @@ differences new since REV are errors: those already there at REV are notices, an
 on what changed since REV are notices too. Every message ends with the finding's id. The
 format of workflow
 commands, and the escaping of ``%``, CR, LF (and, in properties, ``:`` and ``,``), follow
-GitHub's documentation of workflow commands.
+GitHub's documentation of workflow commands (docs/references.md §22).
 """
 
 from __future__ import annotations

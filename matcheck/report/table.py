@@ -30,6 +30,8 @@ STYLES = {
     Status.MATCHED: "green",
 }
 MAX_EVIDENCE_LINES = 8
+# Every column but the measure's, with padding and the table's edges (see render_table).
+_FIXED_WIDTH = 12 + 10 + 10 + 8 + 10 + 10 + 7 + 2
 
 
 def ordered_with_echoes(findings: list[Finding]) -> list[tuple[Finding, bool]]:
@@ -77,12 +79,14 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
             padding=(0, 1, 0, 0),
         )
         table.add_column("Verdict", no_wrap=True, width=12)
-        table.add_column("Measure", no_wrap=True, overflow="ellipsis")
+        # Numbers and ids keep their width on a narrow terminal; measure names shrink.
+        measure_width = max(12, console.width - _FIXED_WIDTH)
+        table.add_column("Measure", no_wrap=True, overflow="ellipsis", max_width=measure_width)
         table.add_column(_short(reference), justify="right", no_wrap=True, max_width=10)
         table.add_column(_short(name), justify="right", no_wrap=True, max_width=10)
         table.add_column("Diff.", justify="right", no_wrap=True, width=8)
         table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
-        table.add_column("Id", no_wrap=True, width=10)
+        table.add_column("Id", no_wrap=True, min_width=10, max_width=10)
         for finding, is_echo in ordered_with_echoes(findings):
             if not show_matched and finding.status is Status.MATCHED:
                 continue
