@@ -38,6 +38,11 @@ def find_finding(report: Report, wanted: str, study: Path) -> Finding:
     if len({finding_id(f) for f in found}) > 1:
         raise UsageError(f"{wanted!r} starts several ids; give all {ID_LENGTH} digits")
     finding = found[0]
+    if finding.dimension not in registry.compared():
+        raise UsageError(
+            f"{wanted} ({finding.name}) is about the learners' data, not the lesson versions: "
+            "only a difference between versions can be accepted"
+        )
     if finding.status is Status.ACCEPTED:
         entry = finding.accepted
         number = f" by accepted #{entry.number}" if entry else ""

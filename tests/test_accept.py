@@ -397,3 +397,16 @@ def test_methods_table_lists_accepted_differences_with_reasons(
 def test_toml_strings_round_trip_through_a_toml_parser(text: str) -> None:
     # Source: TOML 1.0.0, "Basic strings" (docs/references.md §22); tomllib as the reader.
     assert tomllib.loads(f"value = {toml_string(text)}")["value"] == text
+
+
+def test_a_finding_about_the_learners_data_cannot_be_accepted(
+    capsys: pytest.CaptureFixture[str],
+) -> None:
+    # The demo study has learners' data; its time on task differs between two conditions.
+    demo = str(FIXTURES / "study.toml")
+    _, data = _json(capsys, demo)
+    timing = next(
+        f for f in data["findings"] if f["dimension"] == "time_on_task" and f["status"] == "differs"
+    )
+    assert main(["accept", demo, timing["id"], "--reason", "r"]) == 2
+    assert "about the learners' data" in capsys.readouterr().err
