@@ -462,9 +462,12 @@ def _step_summary(formatter: Formatter, reports: Sequence[Report], inputs: Seque
     if formatter.name != "github" or not summary or not reports:
         return
     from matcheck.output import append_output
-    from matcheck.report.markdown import render_markdown
+    from matcheck.report.markdown import render_markdown, review_digest
 
-    append_output(Path(summary), "".join(render_markdown(r) + "\n" for r in reports), inputs)
+    text = "".join(render_markdown(r) + "\n" for r in reports)
+    if len(reports) > 1 and any(r.revision for r in reports):
+        text = review_digest(reports) + "\n" + text  # new problems of every study first
+    append_output(Path(summary), text, inputs)
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -307,3 +307,24 @@ def test_github_annotation_names_the_part_of_a_lesson_in_parts(
     assert match is not None and match.group(1) == "study/text-2.md"
     part_two = (study / "text-2.md").read_text("utf-8").splitlines()
     assert part_two[int(match.group(2)) - 1].startswith("Let out any air")
+
+
+def test_step_summary_of_a_folder_lists_every_study_s_new_problems_first(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str], monkeypatch: pytest.MonkeyPatch
+) -> None:
+    repo = _two_studies(tmp_path)
+    brakes = repo / "brakes" / "diagrams.md"
+    brakes.write_text(brakes.read_text("utf-8").replace(DROPPED + "\n\n", ""), "utf-8")
+    _git(repo, "commit", "-qam", "the brakes lesson loses a paragraph")
+    summary = repo / "summary.md"
+    monkeypatch.setenv("GITHUB_STEP_SUMMARY", str(summary))
+    monkeypatch.chdir(repo)
+    args = ["check", ".", "--against", "HEAD~1", "--format", "github", "--jobs", "1"]
+    assert main(args) == 1
+    errors = [x for x in capsys.readouterr().out.splitlines() if x.startswith("::error ")]
+    assert errors and all("new since HEAD~1: " in x for x in errors)
+    assert any("file=brakes/text.md" in x and "passages_removed" in x for x in errors)
+    text = summary.read_text("utf-8")
+    assert text.startswith("## New since `HEAD~1` in 2 studies")
+    digest = text[: text.index("## matcheck report")]
+    assert "0 new, 0 already there" in digest and "passages_removed" in digest

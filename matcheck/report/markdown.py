@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
 from matcheck.findings import Finding, Report, Status
 from matcheck.identity import finding_id
 from matcheck.report.common import (
@@ -67,6 +69,21 @@ def _problem(finding: Finding) -> str:
         pair = (finding.reference, finding.condition)
         line += f" — {_cell(describe_evidence(finding.evidence[0], pair))}"
     return line
+
+
+def review_digest(reports: Sequence[Report]) -> str:
+    """With --against over several studies: every study's new differences first, before the
+    studies' reports (the step summary of a folder), so none hides below another study."""
+    revision = next((r.revision for r in reports if r.revision), "")
+    lines = [f"## New since `{revision}` in {len(reports)} studies", ""]
+    for report in reports:
+        new, present = review_split(report)
+        title = _cell(report.title or report.reference)
+        lines += [f"**{title}**: {len(new)} new, {len(present)} already there", ""]
+        lines += [_problem(f) for f in new]
+        if new:
+            lines.append("")
+    return "\n".join(lines) + "\n"
 
 
 def render_markdown(report: Report, options: RenderOptions | None = None) -> str:
