@@ -208,10 +208,11 @@ def _study_report(
 
         findings = (*findings, *design_findings(study, study.sample))
     if study.accepted:
-        from matcheck.compare.accept import ComparedPair, apply_accepted
+        from matcheck.compare.accept import ComparedPair, apply_accepted, restate_spreads
 
         compared = [ComparedPair(p.reference, p.condition, p.factor) for p in pairs]
         findings, stale = apply_accepted(findings, compared, study.accepted)
+        spreads = restate_spreads(spreads, findings)
         warnings = (*warnings, *stale)
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
     return Report(

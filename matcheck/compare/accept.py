@@ -20,7 +20,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
-from matcheck.findings import Accepted, Basis, Finding, Status
+from matcheck.findings import Accepted, Basis, Finding, Spread, Status
 from matcheck.identity import finding_id
 
 # Differences are compared with up_to after rounding to the report's decimals; this margin
@@ -137,3 +137,24 @@ def _echoes(findings: list[Finding]) -> list[Finding]:
             )
         result.append(finding)
     return result
+
+
+_WORST_FIRST = (
+    Status.DIFFERS,
+    Status.INCONCLUSIVE,
+    Status.ACCEPTED,
+    Status.INTENDED,
+    Status.MATCHED,
+)
+
+
+def restate_spreads(spreads: Sequence[Spread], findings: Sequence[Finding]) -> tuple[Spread, ...]:
+    """The spread's worst verdict per measure, once accepted differences are accepted."""
+    worst: dict[str, Status] = {}
+    for finding in findings:
+        current = worst.get(finding.dimension, Status.MATCHED)
+        if _WORST_FIRST.index(finding.status) < _WORST_FIRST.index(current):
+            worst[finding.dimension] = finding.status
+        else:
+            worst.setdefault(finding.dimension, current)
+    return tuple(replace(s, status=worst.get(s.dimension, s.status)) for s in spreads)
