@@ -40,8 +40,8 @@ def find_finding(report: Report, wanted: str, study: Path) -> Finding:
     finding = found[0]
     if finding.dimension not in registry.compared():
         raise UsageError(
-            f"{wanted} ({finding.name}) is about the learners' data, not the lesson versions: "
-            "only a difference between versions can be accepted"
+            f"{wanted} ({finding.name}) is about the learners' data or the study's design, "
+            "not the lesson versions: only a difference between versions can be accepted"
         )
     if finding.status is Status.ACCEPTED:
         entry = finding.accepted

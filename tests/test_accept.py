@@ -410,3 +410,26 @@ def test_a_finding_about_the_learners_data_cannot_be_accepted(
     )
     assert main(["accept", demo, timing["id"], "--reason", "r"]) == 2
     assert "about the learners' data" in capsys.readouterr().err
+
+
+def test_spread_shows_an_accepted_measure_as_accepted() -> None:
+    # By construction: words differ in one pair (accepted) and match in the other; headings
+    # differ in one pair and are not accepted.
+    from matcheck.compare.accept import restate_spreads
+    from matcheck.findings import Finding, Group, Spread, Status
+
+    def finding(dimension: str, condition: str, status: Status) -> Finding:
+        return Finding(dimension, Group.LENGTH, "words", "a", condition, status, {}, 1.0, None, "")
+
+    findings = [
+        finding("words", "b", Status.ACCEPTED),
+        finding("words", "c", Status.MATCHED),
+        finding("headings", "b", Status.DIFFERS),
+        finding("headings", "c", Status.ACCEPTED),
+    ]
+    spreads = [
+        Spread("words", Group.LENGTH, "words", 900, 1000, Status.DIFFERS),
+        Spread("headings", Group.STRUCTURE, "headings", 6, 7, Status.DIFFERS),
+    ]
+    restated = {s.dimension: s.status for s in restate_spreads(spreads, findings)}
+    assert restated == {"words": Status.ACCEPTED, "headings": Status.DIFFERS}
