@@ -389,6 +389,20 @@ def test_methods_table_lists_accepted_differences_with_reasons(
     assert main(["table", str(study), "--format", "csv"]) == 0
     rows = capsys.readouterr().out.splitlines()
     assert any(r.startswith("Accepted.,") and "passages_removed" in r for r in rows)
+    for fmt in ("latex", "text"):
+        assert main(["table", str(study), "--format", fmt]) == 0
+        assert "Figure 2 shows this step (passages\\_removed)" in capsys.readouterr().out.replace(
+            "passages_removed", "passages\\_removed"
+        )
+    from docx import Document
+
+    target = study.parent / "table.docx"
+    assert main(["table", str(study), "--format", "docx", "--output", str(target)]) == 0
+    paragraphs = [p.text for p in Document(str(target)).paragraphs]
+    assert any(
+        p.startswith("Accepted. ") and "Figure 2 shows this step (passages_removed)" in p
+        for p in paragraphs
+    )
 
 
 @pytest.mark.parametrize(
