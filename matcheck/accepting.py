@@ -14,7 +14,7 @@ from collections.abc import Collection, Sequence
 from pathlib import Path
 
 from matcheck.errors import ConfigError, UsageError
-from matcheck.findings import Finding, Report, Status
+from matcheck.findings import Accepted, Finding, Report, Status
 from matcheck.identity import ID_LENGTH, finding_id
 from matcheck.measures import registry
 
@@ -53,6 +53,23 @@ def find_finding(report: Report, wanted: str, study: Path) -> Finding:
             f"{finding.status.value}: only a difference beyond tolerance is accepted"
         )
     return finding
+
+
+def overlapping(
+    entries: Sequence[Accepted], finding: Finding, factor: str | None
+) -> list[Accepted]:
+    """The study's entries that name the same comparison (``factor``: the one whose contrast
+    it is), measure and item as ``finding``: it grew beyond them, or its evidence changed."""
+    return [
+        e
+        for e in entries
+        if e.measure == finding.dimension
+        and e.item == finding.item
+        and (
+            (e.contrast is not None and e.contrast == factor)
+            or (e.reference, e.condition) == (finding.reference, finding.condition)
+        )
+    ]
 
 
 def toml_string(text: str) -> str:

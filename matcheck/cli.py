@@ -310,7 +310,7 @@ def accept(
     """Print the [[accepted]] entry that accepts a reviewed difference (--write appends it)."""
     import datetime
 
-    from matcheck.accepting import append_entry, entry_text, find_finding
+    from matcheck.accepting import append_entry, entry_text, find_finding, overlapping
     from matcheck.api import check_study
     from matcheck.study import comparisons, load_study
 
@@ -326,6 +326,13 @@ def accept(
     report = check_study(loaded)
     chosen = find_finding(report, finding, study)
     entry = entry_text(chosen, reason, by, day.isoformat())
+    pair = (chosen.reference, chosen.condition)
+    factor = next((p.factor for p in report.pairs() if (p.reference, p.condition) == pair), None)
+    for older in overlapping(loaded.accepted, chosen, factor):
+        sys.stderr.write(
+            f"matcheck: note: {older.label()} accepts up to {older.extent()}; the new entry "
+            "supersedes it: remove it from the study file\n"
+        )
     if not write:
         sys.stdout.write(entry)
         sys.stderr.write(f"matcheck: add this to {study}, or run again with --write\n")

@@ -447,3 +447,25 @@ def test_spread_shows_an_accepted_measure_as_accepted() -> None:
     ]
     restated = {s.dimension: s.status for s in restate_spreads(spreads, findings)}
     assert restated == {"words": Status.ACCEPTED, "headings": Status.DIFFERS}
+
+
+def test_accepting_a_grown_difference_again_supersedes_the_old_entry(
+    study: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    differs = _accept_all(study, capsys)
+    # Words grow beyond the accepted extent; the team reviews and accepts the new size.
+    (study.parent / "text.md").write_text(
+        BASE.replace(OTHER + "\n\n", OTHER + "\n\n" + OTHER.replace("patch", "repair") + "\n\n"),
+        "utf-8",
+    )
+    status, data = _json(capsys, str(study))
+    words = _roots(data, "differs")["words"]
+    assert status == 1 and "beyond the accepted" in words["reason"]
+    assert words["id"] == differs["words"]["id"]  # same finding, larger
+    assert main(["accept", str(study), words["id"], "--reason", "larger, reviewed", "--write"]) == 0
+    assert "supersedes it" in capsys.readouterr().err
+    _, data = _json(capsys, str(study))
+    assert _roots(data, "accepted")["words"]["accepted"]["reason"] == "larger, reviewed"
+    superseded = [w for w in data["warnings"] if "is superseded by accepted" in w]
+    number = list(differs).index("words") + 1
+    assert len(superseded) == 1 and superseded[0].startswith(f"stale: accepted #{number} (words")

@@ -59,6 +59,7 @@ def apply_accepted(
     decided = list(findings)
     factor = {(p.reference, p.condition): p for p in pairs}
     stale: list[str] = []
+    outgrown: dict[int, tuple[Accepted, list[int]]] = {}  # entries a difference grew beyond
     for entry in entries:
         accepted_one = False
         changed: list[str] = []
@@ -70,8 +71,11 @@ def apply_accepted(
             if finding.dimension != entry.measure or finding.item != entry.item:
                 continue
             candidates += 1
-            if finding.status is Status.ACCEPTED:
-                accepted_one = True  # already accepted by an earlier entry
+            if finding.status is Status.ACCEPTED:  # by an earlier entry
+                if within(entry, finding):
+                    accepted_one = True
+                else:
+                    outgrown.setdefault(entry.number, (entry, []))[1].append(position)
                 continue
             if finding.status is not Status.DIFFERS:
                 continue
@@ -84,8 +88,8 @@ def apply_accepted(
                     f"changed (accepted {entry.id}, now {identity})",
                 )
                 continue
-            accepted_one = True
             if within(entry, finding):
+                accepted_one = True
                 decided[position] = replace(
                     finding,
                     status=Status.ACCEPTED,
@@ -94,13 +98,24 @@ def apply_accepted(
                     accepted=entry,
                 )
             else:
+                outgrown.setdefault(entry.number, (entry, []))[1].append(position)
                 decided[position] = replace(
                     finding,
                     reason=f"beyond the accepted {entry.extent()} ({entry.label()}): "
                     f"{finding.reason}",
                 )
-        if not accepted_one:
+        if not accepted_one and entry.number not in outgrown:
             stale.append(_stale(entry, candidates, changed))
+    for entry, positions in outgrown.values():
+        # A difference that grew beyond this entry, and that a later entry accepts: this one
+        # no longer does anything.
+        later = [decided[p].accepted for p in positions if decided[p].status is Status.ACCEPTED]
+        if later and len(later) == len(positions):
+            numbers = ", ".join(sorted({f"#{e.number}" for e in later if e is not None}))
+            stale.append(
+                f"stale: {entry.label()} is superseded by accepted {numbers}, which accepts "
+                "the larger difference: remove it"
+            )
     return tuple(_echoes(decided)), tuple(stale)
 
 
