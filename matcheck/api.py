@@ -229,6 +229,13 @@ def _study_report(
         from matcheck.power.study_plan import design_findings
 
         findings = (*findings, *design_findings(study, study.sample))
+    if study.accepted:
+        from matcheck.compare.accept import ComparedPair, apply_accepted, restate_spreads
+
+        compared = [ComparedPair(p.reference, p.condition, p.factor) for p in pairs]
+        findings, stale = apply_accepted(findings, compared, study.accepted)
+        spreads = restate_spreads(spreads, findings)
+        warnings = (*warnings, *stale)
     manipulated = tuple(dict.fromkeys(m for factor in study.factors for m in factor.manipulates))
     return Report(
         conditions=tuple(conditions),
@@ -324,9 +331,12 @@ def check_against(
         )
         for (condition, reference), keys in broken.items()
     ]
+    from matcheck.compare.review import preexisting
+
     return replace(
         now,
         revision=revision,
         changes=tuple(changes),
         regressions=(*summaries, *regressions),
+        preexisting=preexisting(before.findings, now.findings),
     )

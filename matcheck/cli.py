@@ -299,6 +299,120 @@ def power(
 
 
 @app.command()
+def accept(
+    study: Annotated[Path, typer.Argument(help="The study file (TOML; docs/study-file.md).")],
+    finding: Annotated[
+        str, typer.Argument(help="The finding's id, as the report's Id column shows it.")
+    ],
+    reason: Annotated[
+        str, typer.Option("--reason", help="Why the difference is acceptable (required).")
+    ],
+    by: Annotated[str | None, typer.Option("--by", help="Who reviewed and accepted it.")] = None,
+    date: Annotated[
+        str | None, typer.Option("--date", help="When (YYYY-MM-DD; default: today).")
+    ] = None,
+    write: Annotated[
+        bool,
+        typer.Option(
+            "--write",
+            help="Append the entry to the study file (its existing text is kept byte for "
+            "byte). Without it, the entry is only printed.",
+        ),
+    ] = False,
+) -> int:
+    """Print the [[accepted]] entry that accepts a reviewed difference (--write appends it)."""
+    import datetime
+
+    from matcheck.accepting import append_entry, entry_text, find_finding, overlapping
+    from matcheck.api import check_study
+    from matcheck.study import comparisons, load_study
+
+    try:
+        day = datetime.date.fromisoformat(date) if date else datetime.date.today()
+    except ValueError:
+        raise UsageError(f"--date {date!r} is not a date like 2026-03-14") from None
+    try:
+        original = study.read_bytes()
+    except OSError:
+        original = b""
+    loaded = load_study(study)
+    report = check_study(loaded)
+    chosen = find_finding(report, finding, study)
+    entry = entry_text(chosen, reason, by, day.isoformat())
+    pair = (chosen.reference, chosen.condition)
+    factor = next((p.factor for p in report.pairs() if (p.reference, p.condition) == pair), None)
+    for older in overlapping(loaded.accepted, chosen, factor):
+        sys.stderr.write(
+            f"matcheck: note: {older.label()} accepts up to {older.extent()}; the new entry "
+            "supersedes it: remove it from the study file\n"
+        )
+    if not write:
+        sys.stdout.write(entry)
+        sys.stderr.write(f"matcheck: add this to {study}, or run again with --write\n")
+        return EXIT_MATCHED
+    pairs = [(c.reference, c.condition) for c in comparisons(loaded)]
+    number = append_entry(study, original, entry, pairs, [f.name for f in loaded.factors])
+    sys.stderr.write(f"matcheck: appended accepted #{number} to {study}\n")
+    return EXIT_MATCHED
+
+
+@app.command()
+def hook(
+    files: Annotated[
+        list[Path] | None,
+        typer.Argument(help="Staged files (pre-commit passes them; default: ask Git)."),
+    ] = None,
+    format: Annotated[
+        str, typer.Option("--format", "-f", help=_formats(Subject.STUDIES))
+    ] = "table",
+    jobs: Annotated[
+        int | None, typer.Option("--jobs", "-j", help="Studies checked at once.")
+    ] = None,
+) -> int:
+    """For a pre-commit hook: check only the studies whose files are staged, and say which."""
+    from matcheck.batch import check_all, find_studies
+    from matcheck.staged import staged_files, studies_touched
+
+    formatter = get(Subject.STUDIES, format)
+    folder = Path(".")  # pre-commit runs hooks from the repository's root
+    changed = list(files) if files else staged_files(folder)
+    studies = find_studies(folder)
+    chosen = studies_touched(studies, changed)
+    if not chosen:
+        sys.stderr.write(
+            f"matcheck: no staged file belongs to any of the {len(studies)} studies; "
+            "nothing to check\n"
+        )
+        return EXIT_MATCHED
+    shown = ", ".join(_shown(path, folder) for path in chosen)
+    sys.stderr.write(
+        f"matcheck: checking {len(chosen)} of {len(studies)} studies, those with staged "
+        f"files: {shown}\n"
+    )
+    results = check_all(chosen, jobs=jobs)
+    reports = [r.report for r in results if r.report is not None]
+    if formatter.console:  # on a terminal: what differs in each study, then the summary
+        from rich.console import Console
+
+        console = Console()
+        for result in results:
+            if result.report is not None and result.report.differs:
+                console.rule(result.path)
+                get(Subject.REPORT, "table").load()(
+                    result.report, console, RenderOptions(show_matched=False)
+                )
+    deliver(formatter, results, None, chosen)
+    return exit_status(reports, failed=sum(1 for r in results if r.error))
+
+
+def _shown(path: Path, folder: Path) -> str:
+    try:
+        return path.resolve().relative_to(folder.resolve()).as_posix()
+    except ValueError:
+        return str(path)
+
+
+@app.command()
 def measures() -> int:
     """List every measure with its id, group, unit and default tolerance."""
     from rich.console import Console
@@ -368,9 +482,12 @@ def _step_summary(formatter: Formatter, reports: Sequence[Report], inputs: Seque
     if formatter.name != "github" or not summary or not reports:
         return
     from matcheck.output import append_output
-    from matcheck.report.markdown import render_markdown
+    from matcheck.report.markdown import render_markdown, review_digest
 
-    append_output(Path(summary), "".join(render_markdown(r) + "\n" for r in reports), inputs)
+    text = "".join(render_markdown(r) + "\n" for r in reports)
+    if len(reports) > 1 and any(r.revision for r in reports):
+        text = review_digest(reports) + "\n" + text  # new problems of every study first
+    append_output(Path(summary), text, inputs)
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -33,6 +33,7 @@ class Status(StrEnum):
 
     DIFFERS = "differs"
     INCONCLUSIVE = "inconclusive"
+    ACCEPTED = "accepted"  # beyond tolerance, reviewed and accepted in the study file
     INTENDED = "intended"
     MATCHED = "matched"
 
@@ -66,6 +67,7 @@ class Basis(StrEnum):
     TEST_INCONCLUSIVE = "test_inconclusive"  # beyond tolerance, but a test cannot show it
     ECHO = "echo"  # follows a root cause that is itself inconclusive
     POWER = "power"  # the planned sample's power for a contrast, against the target
+    ACCEPTED = "accepted"  # beyond tolerance, within what a [[accepted]] entry allows
 
 
 class EvidenceKind(StrEnum):
@@ -165,6 +167,42 @@ class StatTest:
 
 
 @dataclass(frozen=True, slots=True)
+class Accepted:
+    """A difference the team reviewed and accepted: one ``[[accepted]]`` table of the study
+    file (docs/study-file.md). ``number`` is its position among them, from 1.
+
+    ``up_to`` is the largest difference accepted, with its sign, in the measure's unit, or a
+    share of the reference value when ``relative`` (written ``"-6%"``). ``id`` pins the
+    finding, evidence included (:mod:`matcheck.identity`).
+    """
+
+    number: int
+    measure: str
+    up_to: float
+    reason: str
+    relative: bool = False
+    reference: str | None = None
+    condition: str | None = None
+    contrast: str | None = None
+    item: str | None = None
+    id: str | None = None
+    by: str = ""
+    date: str = ""
+
+    def extent(self) -> str:
+        return f"{self.up_to * 100:+g}%" if self.relative else f"{self.up_to:+g}"
+
+    def label(self) -> str:
+        where = (
+            f"contrast {self.contrast}"
+            if self.contrast
+            else f"{self.condition} vs {self.reference}"
+        )
+        what = f"item {self.item}" if self.item else self.measure
+        return f"accepted #{self.number} ({what}, {where})"
+
+
+@dataclass(frozen=True, slots=True)
 class Finding:
     """One measure (``dimension``) compared between ``reference`` and ``condition``.
 
@@ -187,6 +225,7 @@ class Finding:
     test: StatTest | None = None
     basis: Basis = Basis.WITHIN_TOLERANCE
     item: str | None = None
+    accepted: Accepted | None = None  # the study file's entry that accepts it
 
     @property
     def key(self) -> str:
@@ -279,6 +318,9 @@ class Report:
     revision: str = ""
     changes: tuple[Finding, ...] = ()
     regressions: tuple[Regression, ...] = ()
+    # With --against REV: the ids of the differences that were already there at REV (the
+    # others are new, and a reviewer sees them first).
+    preexisting: frozenset[str] = frozenset()
     # The thresholds the comparison used, recorded so that the report can be reproduced.
     settings: ComparisonSettings = DEFAULT_COMPARISON
     # Aggregates of the learners' data ([data] in the study file), for the reports.

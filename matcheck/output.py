@@ -17,7 +17,9 @@ from pathlib import Path
 from matcheck.errors import UsageError
 
 
-def write_output(output: Path, text: str | bytes, inputs: Sequence[Path]) -> None:
+def write_output(
+    output: Path, text: str | bytes, inputs: Sequence[Path], *, update_input: bool = False
+) -> None:
     """Write ``text`` (or the bytes of a binary report) to ``output`` via a temporary file
     and a rename.
 
@@ -26,7 +28,10 @@ def write_output(output: Path, text: str | bytes, inputs: Sequence[Path]) -> Non
     can never replace a lesson or anything that is not a report.
     """
     target = output.resolve()
-    refuse_inputs(output, inputs, "--output")
+    # The one deliberate exception: `accept --write` appends to the study file it was asked
+    # to, and only on that explicit request.
+    if not update_input:
+        refuse_inputs(output, inputs, "--output")
     if output.is_dir():
         raise UsageError(f"--output {output} is a directory")
     if not target.parent.is_dir():

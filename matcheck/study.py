@@ -15,6 +15,7 @@ from typing import TYPE_CHECKING, Any
 
 from matcheck.data.spec import DataSpec, parse_data
 from matcheck.errors import ConfigError
+from matcheck.findings import Accepted
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
 if TYPE_CHECKING:
@@ -30,6 +31,7 @@ TOP_KEYS = {
     "comparison",
     "data",
     "sample",
+    "accepted",
 }
 STUDY_KEYS = {"title", "reference", "reading_rate", "description"}
 FACTOR_KEYS = {"levels", "manipulates", "description"}
@@ -81,6 +83,7 @@ class Study:
     data: DataSpec | None = None
     # The planned sample ([sample], docs/power.md); None when the file has none.
     sample: SamplePlan | None = None
+    accepted: tuple[Accepted, ...] = ()  # [[accepted]]: reviewed differences
 
     def condition(self, name: str) -> StudyCondition:
         return next(c for c in self.conditions if c.name == name)
@@ -298,7 +301,20 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
         plan = parse_sample(data["sample"], shown)
         study_design(study_, plan)  # refuses a design power cannot be computed for
         study_ = replace(study_, sample=plan)
-    return study_
+    return _with_accepted(study_, data.get("accepted"))
+
+
+def _with_accepted(study: Study, raw: object) -> Study:
+    """The study with its ``[[accepted]]`` entries, checked against its comparisons."""
+    from dataclasses import replace
+
+    from matcheck.measures import registry
+    from matcheck.study_accepted import parse_accepted
+
+    pairs = [(c.reference, c.condition) for c in comparisons(study)]
+    factors = [f.name for f in study.factors]
+    entries = parse_accepted(study.path, raw, pairs, factors, registry.compared())
+    return replace(study, accepted=entries) if entries else study
 
 
 def _comparison(path: Path, table: object, coverage: float | None) -> ComparisonSettings:

@@ -43,6 +43,7 @@ STATUS_OF = {
     Basis.NOT_SHOWN: Status.INCONCLUSIVE,
     Basis.TEST_INCONCLUSIVE: Status.INCONCLUSIVE,
     Basis.ECHO: Status.INCONCLUSIVE,
+    Basis.ACCEPTED: Status.ACCEPTED,  # set after this step, by compare/accept.py
 }
 ACTIVE = (Status.DIFFERS, Status.INTENDED, Status.INCONCLUSIVE)
 Judgement = tuple[Basis, str, StatTest | None]

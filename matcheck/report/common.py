@@ -12,11 +12,18 @@ from matcheck.findings import (
     Report,
     Status,
 )
+from matcheck.identity import finding_id
 from matcheck.measures import registry
 from matcheck.measures.base import UNIT_DECIMALS, Role
 from matcheck.measures.comparisons import KEY_TERM_COVERAGE
 
-STATUS_ORDER = (Status.DIFFERS, Status.INCONCLUSIVE, Status.INTENDED, Status.MATCHED)
+STATUS_ORDER = (
+    Status.DIFFERS,
+    Status.INCONCLUSIVE,
+    Status.ACCEPTED,
+    Status.INTENDED,
+    Status.MATCHED,
+)
 GROUP_ORDER = tuple(Group)
 
 
@@ -106,6 +113,40 @@ def describe_evidence(item: Evidence, pair: tuple[str, str]) -> str:
 
 def summary_counts(report: Report) -> dict[str, int]:
     return {status.value: len(report.root_findings(status)) for status in STATUS_ORDER}
+
+
+def counts_sentence(report: Report) -> str:
+    """``2 differ, 1 inconclusive, 3 intended, 40 matched`` (accepted only when there are)."""
+    counts = summary_counts(report)
+    accepted = f"{counts['accepted']} accepted, " if counts["accepted"] else ""
+    return (
+        f"{counts['differs']} differ, {counts['inconclusive']} inconclusive, {accepted}"
+        f"{counts['intended']} intended, {counts['matched']} matched"
+    )
+
+
+def describe_acceptance(finding: Finding) -> str:
+    """The reason a finding is accepted, and by whom and when, as one line."""
+    entry = finding.accepted
+    if entry is None:
+        return finding.reason
+    extra = ", ".join(part for part in (entry.by, entry.date) if part)
+    shown = f" ({extra})" if extra else ""
+    if finding.caused_by is not None and finding.reason.startswith("follows"):
+        return f"{finding.reason}: {entry.reason}{shown}"
+    return f"accepted up to {entry.extent()}: {entry.reason}{shown}"
+
+
+def is_new(report: Report, finding: Finding) -> bool:
+    """With --against: whether a difference is new since the revision (not there before)."""
+    return finding.status is Status.DIFFERS and finding_id(finding) not in report.preexisting
+
+
+def review_split(report: Report) -> tuple[list[Finding], list[Finding]]:
+    """With --against: the root differences new since the revision, and those already there."""
+    roots = report.root_findings(Status.DIFFERS)
+    new = [f for f in roots if is_new(report, f)]
+    return new, [f for f in roots if not is_new(report, f)]
 
 
 def describe_regression(regression: Regression) -> str:

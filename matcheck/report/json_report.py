@@ -6,9 +6,10 @@ import json
 from typing import Any
 
 from matcheck import __version__
-from matcheck.findings import SCHEMA_VERSION, Evidence, Finding, Report
+from matcheck.findings import SCHEMA_VERSION, Accepted, Evidence, Finding, Report
+from matcheck.identity import finding_id
 from matcheck.model import Location
-from matcheck.report.common import describe_regression, sorted_findings, summary_counts
+from matcheck.report.common import describe_regression, is_new, sorted_findings, summary_counts
 from matcheck.report.formatter import RenderOptions
 
 
@@ -39,9 +40,22 @@ def _evidence(item: Evidence) -> dict[str, Any]:
     }
 
 
-def finding_dict(finding: Finding) -> dict[str, Any]:
+def _accepted(entry: Accepted | None) -> dict[str, Any] | None:
+    if entry is None:
+        return None
+    return {
+        "entry": entry.number,
+        "up_to": entry.extent(),
+        "reason": entry.reason,
+        "by": entry.by or None,
+        "date": entry.date or None,
+    }
+
+
+def finding_dict(finding: Finding, new: bool | None = None) -> dict[str, Any]:
     tolerance = finding.tolerance
     return {
+        "id": finding_id(finding),
         "dimension": finding.dimension,
         "item": finding.item,
         "group": finding.group.value,
@@ -71,6 +85,8 @@ def finding_dict(finding: Finding) -> dict[str, Any]:
             "detail": finding.test.detail,
         },
         "evidence": [_evidence(item) for item in finding.evidence],
+        "accepted": _accepted(finding.accepted),
+        "new": new,
     }
 
 
@@ -108,7 +124,10 @@ def report_dict(report: Report) -> dict[str, Any]:
             "verdict": "differs" if report.differs else "matched",
             "root_findings": counts,
         },
-        "findings": [finding_dict(f) for f in sorted_findings(report.findings)],
+        "findings": [
+            finding_dict(f, is_new(report, f) if report.revision else None)
+            for f in sorted_findings(report.findings)
+        ],
         "spread": [
             {
                 "dimension": s.dimension,

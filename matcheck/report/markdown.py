@@ -2,14 +2,19 @@
 
 from __future__ import annotations
 
-from matcheck.findings import Report, Status
+from collections.abc import Sequence
+
+from matcheck.findings import Finding, Report, Status
+from matcheck.identity import finding_id
 from matcheck.report.common import (
+    counts_sentence,
+    describe_acceptance,
     describe_evidence,
     describe_regression,
     format_difference,
     format_tolerance,
     format_value,
-    summary_counts,
+    review_split,
 )
 from matcheck.report.escape import markdown, markdown_code
 from matcheck.report.formatter import RenderOptions
@@ -18,6 +23,7 @@ from matcheck.report.table import ordered_with_echoes
 ICONS = {
     Status.DIFFERS: "❌ differs",
     Status.INCONCLUSIVE: "⚠️ inconclusive",
+    Status.ACCEPTED: "☑️ accepted",
     Status.INTENDED: "🎯 intended",
     Status.MATCHED: "✅ matched",
 }
@@ -42,8 +48,48 @@ def _design(report: Report) -> list[str]:
     return [*lines, *(f"- {_cell(line)}" for line in shortfalls(report)), ""]
 
 
+def _review(report: Report) -> list[str]:
+    """With --against: the differences new since the revision first, then those already
+    there (a pull request's reviewer reads the first list)."""
+    new, present = review_split(report)
+    revision = report.revision
+    lines = [f"### New since `{revision}`", ""]
+    lines += [_problem(f) for f in new] or [f"No difference is new since `{revision}`."]
+    lines.append("")
+    if present:
+        lines += [f"### Already at `{revision}`", ""]
+        lines += [_problem(f) for f in present]
+        lines.append("")
+    return lines
+
+
+def _problem(finding: Finding) -> str:
+    line = (
+        f"- ❌ `{_cell(finding.condition)}` vs `{_cell(finding.reference)}`: "
+        f"`{finding.name}` {_cell(format_difference(finding))} (`{finding_id(finding)}`)"
+    )
+    if finding.evidence:
+        pair = (finding.reference, finding.condition)
+        line += f" — {_cell(describe_evidence(finding.evidence[0], pair))}"
+    return line
+
+
+def review_digest(reports: Sequence[Report]) -> str:
+    """With --against over several studies: every study's new differences first, before the
+    studies' reports (the step summary of a folder), so none hides below another study."""
+    revision = next((r.revision for r in reports if r.revision), "")
+    lines = [f"## New since `{revision}` in {len(reports)} studies", ""]
+    for report in reports:
+        new, present = review_split(report)
+        title = _cell(report.title or report.reference)
+        lines += [f"**{title}**: {len(new)} new, {len(present)} already there", ""]
+        lines += [_problem(f) for f in new]
+        if new:
+            lines.append("")
+    return "\n".join(lines) + "\n"
+
+
 def render_markdown(report: Report, options: RenderOptions | None = None) -> str:
-    counts = summary_counts(report)
     lines = ["## matcheck report", ""]
     verdict = (
         "**Possible confounds found.**"
@@ -51,8 +97,7 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
         else "**No differences beyond tolerance.**"
     )
     lines.append(
-        f"{verdict} {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
-        f"{counts['intended']} intended, {counts['matched']} matched (root findings). "
+        f"{verdict} {counts_sentence(report)} (root findings). "
         f"Reference: {_code(report.reference)}"
         + (
             f"; manipulated: {', '.join(f'`{m}`' for m in report.manipulated)}."
@@ -61,6 +106,8 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
         )
     )
     lines.append("")
+    if report.revision:
+        lines += _review(report)
     for pairing in report.pairs():
         name, reference = pairing.condition, pairing.reference
         findings = list(report.findings_of(pairing))
@@ -70,8 +117,8 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
         lines += [heading, ""]
         header = [
             f"| Group | Measure | {_cell(reference)} | {_cell(name)} "
-            "| Difference | Tolerance | Verdict |",
-            "|---|---|--:|--:|--:|--:|---|",
+            "| Difference | Tolerance | Verdict | Id |",
+            "|---|---|--:|--:|--:|--:|---|---|",
         ]
         lines += header
         matched = []
@@ -85,7 +132,7 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
             row = (
                 f"| {finding.group} | `{label}` | {ref_value} | {value} | "
                 f"{_cell(format_difference(finding))} | {_cell(format_tolerance(finding))} "
-                f"| {verdict} |"
+                f"| {verdict} | `{finding_id(finding)}` |"
             )
             if finding.status is Status.MATCHED:
                 matched.append(row)
@@ -97,6 +144,14 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
             lines += header
             lines += matched
             lines += ["", "</details>", ""]
+        accepted = [f for f in findings if f.status is Status.ACCEPTED and f.caused_by is None]
+        for finding in accepted:
+            lines.append(
+                f"> ☑️ `{finding.name}` (`{finding_id(finding)}`): "
+                f"{_cell(describe_acceptance(finding))}"
+            )
+        if accepted:
+            lines.append("")
         located = [f for f in findings if f.evidence and f.status is not Status.MATCHED]
         for finding in located:
             lines.append(

@@ -62,12 +62,20 @@ def render_summary(
     from matcheck.report.escape import rich as escape
 
     table = Table(title="Studies", title_justify="left", header_style="bold")
-    for column in ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Problem"):
+    columns = ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Accepted", "Problem")
+    for column in columns:
         table.add_column(column)
     for result in results:
         if result.report is None:
             table.add_row(
-                escape(result.path), "—", "error", "—", "—", escape(result.error or ""), style="red"
+                escape(result.path),
+                "—",
+                "error",
+                "—",
+                "—",
+                "—",
+                escape(result.error or ""),
+                style="red",
             )
             continue
         report = result.report
@@ -77,7 +85,8 @@ def render_summary(
             "differs" if report.differs else "matched",
             str(len(report.root_findings(Status.DIFFERS))),
             str(len(report.root_findings(Status.INCONCLUSIVE))),
-            "",
+            str(len(report.root_findings(Status.ACCEPTED))),
+            "; ".join(report.warnings),
             style="bold red" if report.differs else None,
         )
     console.print(table)

@@ -5,14 +5,17 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from matcheck.findings import Finding, Pairing, Report, Status
+from matcheck.identity import finding_id
 from matcheck.report.common import (
+    counts_sentence,
+    describe_acceptance,
     describe_evidence,
     describe_regression,
     format_difference,
     format_tolerance,
     format_value,
+    review_split,
     sorted_findings,
-    summary_counts,
 )
 from matcheck.report.escape import rich as esc
 from matcheck.report.escape import terminal
@@ -24,10 +27,13 @@ if TYPE_CHECKING:
 STYLES = {
     Status.DIFFERS: "bold red",
     Status.INCONCLUSIVE: "yellow",
+    Status.ACCEPTED: "blue",
     Status.INTENDED: "cyan",
     Status.MATCHED: "green",
 }
 MAX_EVIDENCE_LINES = 8
+# Every column but the measure's, with padding and the table's edges (see render_table).
+_FIXED_WIDTH = 12 + 10 + 10 + 8 + 10 + 10 + 7 + 2
 
 
 def ordered_with_echoes(findings: list[Finding]) -> list[tuple[Finding, bool]]:
@@ -75,11 +81,14 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
             padding=(0, 1, 0, 0),
         )
         table.add_column("Verdict", no_wrap=True, width=12)
-        table.add_column("Measure", no_wrap=True, overflow="ellipsis")
+        # Numbers and ids keep their width on a narrow terminal; measure names shrink.
+        measure_width = max(12, console.width - _FIXED_WIDTH)
+        table.add_column("Measure", no_wrap=True, overflow="ellipsis", max_width=measure_width)
         table.add_column(esc(_short(reference)), justify="right", no_wrap=True, max_width=10)
         table.add_column(esc(_short(name)), justify="right", no_wrap=True, max_width=10)
         table.add_column("Diff.", justify="right", no_wrap=True, width=8)
         table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
+        table.add_column("Id", no_wrap=True, min_width=10, max_width=10)
         for finding, is_echo in ordered_with_echoes(findings):
             if not show_matched and finding.status is Status.MATCHED:
                 continue
@@ -91,6 +100,7 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
                 format_value(finding.values.get(name), finding.unit, finding.dimension),
                 format_difference(finding, short=True),
                 format_tolerance(finding, short=True),
+                finding_id(finding),
                 style=STYLES[finding.status] if finding.status is not Status.MATCHED else None,
             )
         console.print(table)
@@ -100,7 +110,8 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
         located = [
             f
             for f in sorted_findings(findings)
-            if f.status is not Status.MATCHED and (f.evidence or f.status is Status.INCONCLUSIVE)
+            if f.status is not Status.MATCHED
+            and (f.evidence or f.status in (Status.INCONCLUSIVE, Status.ACCEPTED))
         ]
         if located:
             console.print("[bold]Where[/bold]")
@@ -112,6 +123,9 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
                 )
                 if finding.status is Status.INCONCLUSIVE:
                     console.print(f"  {esc(finding.reason or '')}", highlight=False)
+                elif finding.status is Status.ACCEPTED:
+                    line = terminal(describe_acceptance(finding))
+                    console.print(f"  {line}", highlight=False, markup=False)
                 for item in finding.evidence[:MAX_EVIDENCE_LINES]:
                     line = describe_evidence(item, (finding.reference, finding.condition))
                     console.print(f"  • {terminal(line)}", highlight=False, markup=False)
@@ -140,15 +154,13 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
     _render_design(report, console)
     if report.revision:
         _render_changes(report, console)
-    counts = summary_counts(report)
     verdict = (
         "[bold red]possible confounds found[/]"
         if report.differs
         else "[bold green]no differences beyond tolerance[/]"
     )
     console.print(
-        f"{verdict}: {counts['differs']} differ, {counts['inconclusive']} inconclusive, "
-        f"{counts['intended']} intended, {counts['matched']} matched "
+        f"{verdict}: {counts_sentence(report)} "
         f"(root findings; reading rate {report.words_per_minute:g} words/min)."
     )
     for note in report.notes:
@@ -204,6 +216,14 @@ def _render_changes(report: Report, console: Console) -> None:
 
     revision = esc(report.revision or "")
     console.print(f"[bold]Since {revision}[/bold]")
+    new, present = review_split(report)
+    for label, findings in (("new", new), (f"already at {report.revision}", present)):
+        for finding in findings:
+            line = (
+                f"{label}: {finding.condition} vs {finding.reference}: {finding.name} differs "
+                f"({format_difference(finding)}) [{finding_id(finding)}]"
+            )
+            console.print(f"  • {terminal(line)}", highlight=False, markup=False)
     if not report.regressions:
         console.print(f"  nothing changed beyond tolerance since {revision}")
     for regression in report.regressions:

@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from matcheck.findings import Finding, Report, Status
+from matcheck.measures import registry
 from matcheck.report.common import GROUP_ORDER, format_difference, format_tolerance, format_value
 from matcheck.report.methods.model import (
     COVERAGE,
@@ -12,6 +13,7 @@ from matcheck.report.methods.model import (
     POSTTEST,
     TITLE,
     VERDICTS,
+    AcceptedRow,
     MethodsRow,
     MethodsTable,
     TableMeasure,
@@ -20,7 +22,13 @@ from matcheck.report.methods.model import (
 from matcheck.report.methods.notes import PostTestItems, table_notes
 
 # One row's verdict is its worst finding's: any pair beyond tolerance makes the row "no".
-_WORST_FIRST = (Status.DIFFERS, Status.INCONCLUSIVE, Status.INTENDED, Status.MATCHED)
+_WORST_FIRST = (
+    Status.DIFFERS,
+    Status.INCONCLUSIVE,
+    Status.ACCEPTED,
+    Status.INTENDED,
+    Status.MATCHED,
+)
 
 
 def methods_table(
@@ -59,6 +67,9 @@ def methods_table(
     rows.sort(key=lambda r: GROUP_ORDER.index(r.group))  # stable: catalogue order inside
     title = f"{TITLE}: {report.title}" if report.title else TITLE
     notes = table_notes(rows, report.words_per_minute, _untaught(items, threshold or 1.0))
+    accepted = _accepted(report)
+    if accepted:
+        notes = (*notes[:-1], ACCEPTED_NOTE, notes[-1])
     return MethodsTable(
         number,
         title,
@@ -68,6 +79,7 @@ def methods_table(
         report.words_per_minute,
         data=report.data,
         sample_size=_sample_size(report),
+        accepted=accepted,
     )
 
 
@@ -76,6 +88,43 @@ def _sample_size(report: Report) -> str:
     from matcheck.report.design import sample_size_paragraph
 
     return sample_size_paragraph(report)
+
+
+ACCEPTED_NOTE = (
+    "Accepted: beyond tolerance, reviewed and accepted by the authors; each accepted "
+    "difference is listed below the table with its reason."
+)
+
+
+def _label(finding: Finding) -> str:
+    if finding.item is not None:
+        return f"Post-test item {finding.item}"
+    spec = registry.spec(finding.dimension)
+    return spec.shown_label if spec is not None else finding.dimension
+
+
+def _accepted(report: Report) -> tuple[AcceptedRow, ...]:
+    """Every accepted root difference with its reason, in report order."""
+    rows = []
+    for finding in report.findings:
+        entry = finding.accepted
+        if finding.status is not Status.ACCEPTED or finding.caused_by is not None or not entry:
+            continue
+        echoes = tuple(
+            _label(echo) for echo in report.echoes_of(finding) if echo.status is Status.ACCEPTED
+        )
+        rows.append(
+            AcceptedRow(
+                f"{finding.condition} vs {finding.reference}",
+                _label(finding),
+                format_difference(finding),
+                entry.reason,
+                entry.by,
+                entry.date,
+                echoes,
+            )
+        )
+    return tuple(rows)
 
 
 def _verdict(findings: Sequence[Finding]) -> str:

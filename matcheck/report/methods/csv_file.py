@@ -12,8 +12,10 @@ from matcheck.report.methods.model import MethodsTable
 def render_csv(table: MethodsTable, options: RenderOptions | None = None) -> str:
     """RFC 4180 CSV; the note is the last row, ``Note.`` in the Group column, padded to width.
 
-    Every row has the same number of fields, so spreadsheets and ``csv.reader`` read it as is;
-    a reader that wants only the data drops the row whose first field is ``Note.``.
+    Accepted differences come before the note, one row each with ``Accepted.`` in the Group
+    column and the sentence with its reason in the next. Every row has the same number of
+    fields, so spreadsheets and ``csv.reader`` read it as is; a reader that wants only the
+    data drops the rows whose first field is ``Accepted.`` or ``Note.``.
     """
     from matcheck.report.escape import csv_cell
 
@@ -27,5 +29,7 @@ def render_csv(table: MethodsTable, options: RenderOptions | None = None) -> str
     for row in table.rows:
         label = (csv_cell(row.group_label), csv_cell(row.label))
         writer.writerow((*label, *row.values, row.difference, row.verdict))
+    for accepted in table.accepted:
+        writer.writerow(("Accepted.", csv_cell(accepted.sentence), *([""] * (width - 2))))
     writer.writerow(("Note.", csv_cell(table.note), *([""] * (width - 2))))
     return buffer.getvalue()

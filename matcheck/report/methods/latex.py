@@ -68,6 +68,10 @@ def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> s
         r"\par\smallskip",
         r"\begin{minipage}{\linewidth}",
         rf"\footnotesize\textit{{Note.}} {escape_latex(table.note)}\par",
+        *(
+            rf"\footnotesize\textit{{Accepted.}} {escape_latex(row.sentence)}\par"
+            for row in table.accepted
+        ),
         r"\end{minipage}",
         r"\end{table}",
     ]

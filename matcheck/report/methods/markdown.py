@@ -27,6 +27,9 @@ def render_markdown(table: MethodsTable, options: RenderOptions | None = None) -
         cells = (row.group_label, row.label, *row.values, row.difference, row.verdict)
         lines.append("| " + " | ".join(_md(cell) for cell in cells) + " |")
     lines += ["", f"*Note.* {_md(table.note)}"]
+    if table.accepted:
+        lines += ["", "*Accepted differences.*", ""]
+        lines += [f"- {_md(row.sentence)}" for row in table.accepted]
     if table.data is not None:
         from matcheck.report.study_data import methods_baseline_markdown
 

@@ -23,6 +23,7 @@ VERDICTS = {
     Status.DIFFERS: "no",
     Status.INTENDED: "intended",
     Status.INCONCLUSIVE: "n/a",
+    Status.ACCEPTED: "accepted",
 }
 
 # The three rows made from several findings rather than from one measure's.
@@ -93,6 +94,31 @@ class MethodsRow:
 
 
 @dataclass(frozen=True, slots=True)
+class AcceptedRow:
+    """A difference beyond tolerance that the team reviewed and accepted ([[accepted]] in
+    the study file), listed apart from the matched measures with its reason."""
+
+    comparison: str  # "diagrams vs text"
+    label: str
+    difference: str
+    reason: str
+    by: str = ""
+    date: str = ""
+    echoes: tuple[str, ...] = ()  # measures that follow it and are accepted with it
+
+    @property
+    def sentence(self) -> str:
+        """One line for a note or a list: what, where, how large, why, by whom."""
+        follows = f", with {', '.join(self.echoes)}, which follow from it" if self.echoes else ""
+        credit = ", ".join(part for part in (self.by, self.date) if part)
+        credit = f" ({credit})" if credit else ""
+        return (
+            f"{self.label}, {self.comparison}: {self.difference}{follows}. "
+            f"Reason: {self.reason}{credit}"
+        )
+
+
+@dataclass(frozen=True, slots=True)
 class MethodsTable:
     number: int
     title: str
@@ -104,6 +130,7 @@ class MethodsTable:
     data: StudyData | None = None
     # The power of the planned sample, for the methods section ("" without [sample]).
     sample_size: str = ""
+    accepted: tuple[AcceptedRow, ...] = ()
 
     @property
     def note(self) -> str:

@@ -14,6 +14,7 @@ _CLAUSES = (
     ("yes", "were matched on"),
     ("intended", "differed as intended in"),
     ("no", "differed beyond tolerance in"),
+    ("accepted", "differed, as reviewed and accepted by the authors, in"),
     ("n/a", "could not be compared conclusively on"),
 )
 
@@ -50,6 +51,9 @@ def render_text(table: MethodsTable, options: RenderOptions | None = None) -> st
             f"Reading time was estimated at {table.words_per_minute:g} words per minute"
             + (" (Brysbaert, 2019)." if table.words_per_minute == DEFAULT_WPM else ".")
         )
+    if table.accepted:
+        reasons = "; ".join(row.sentence.rstrip(".") for row in table.accepted)
+        sentences.append(f"Accepted differences and their reasons: {reasons}.")
     sentences.append(f"Table {table.number} gives every measure with its tolerance.")
     if table.data is not None:
         from matcheck.report.study_data import methods_sentence

@@ -101,6 +101,10 @@ def render_docx(table: MethodsTable, options: RenderOptions | None = None) -> by
     note.add_run("Note.").italic = True
     note.add_run(f" {table.note}")
     note.alignment = WD_ALIGN_PARAGRAPH.LEFT
+    for entry in table.accepted:
+        accepted = document.add_paragraph()
+        accepted.add_run("Accepted.").italic = True
+        accepted.add_run(f" {entry.sentence}")
     buffer = io.BytesIO()
     document.save(buffer)
     return buffer.getvalue()
