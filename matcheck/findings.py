@@ -89,6 +89,12 @@ class EvidenceKind(StrEnum):
     TEXT_REMOVED = "text_removed", "text of {here} cut from the matching passage of {there}"
     TEXT_ADDED = "text_added", "text added in {here}, not in {there}"
     TERM_MISSING = "term_missing", "key term of {here} not found in {there}"
+    NUMBER_CHANGED = "number_changed", "number of {here} stated differently in {there}"
+    UNIT_CHANGED = "unit_changed", "unit of {here} stated differently in {there}"
+    NEGATION_CHANGED = "negation_changed", "negation of {here} differs in {there}"
+    COMPARISON_CHANGED = "comparison_changed", "comparison of {here} differs in {there}"
+    TERM_SWAPPED = "term_swapped", "term of {here} swapped in {there}"
+    TEXT_REWORDED = "text_reworded", "passage of {here} reworded in {there}"
     HEADING_REMOVED = "heading_removed", "heading of {here} missing from {there}"
     HEADING_ADDED = "heading_added", "heading of {here} not in {there}"
     HEADING_LEVEL_CHANGED = (
@@ -115,6 +121,10 @@ class EvidenceKind(StrEnum):
     POSSIBLE_REASON = "possible_reason", "possible reason for the null result"
     RULED_OUT = "ruled_out", "ruled out"
     WEAK_ITEM = "weak_item", "weak item ({here})"
+    ITEM_TAUGHT_DIFFERENTLY = (
+        "item_taught_differently",
+        "item's fact as {here} states it, and as {there} does",
+    )
 
 
 @dataclass(frozen=True, slots=True)

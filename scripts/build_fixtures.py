@@ -56,7 +56,8 @@ class Block:
     """One block of the lesson source.
 
     ``tag`` marks the paragraph the confounded version drops; ``split`` holds the same
-    paragraph with its long sentences cut into short ones (used by the confounded version).
+    paragraph with its long sentences cut into short ones (used by the confounded version);
+    ``changed_items`` holds a list whose facts the confounded version states differently.
     """
 
     kind: Kind
@@ -67,6 +68,7 @@ class Block:
     figure: str = ""
     tag: str = ""
     split: str = ""
+    changed_items: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -245,6 +247,15 @@ LESSON: tuple[Block, ...] = (
             "Press the patch onto the tube, centred over the hole, and squeeze it for a minute.",
             "Leave the clear backing film in place and dust the area with chalk.",
         ),
+        # The confounded version's changed fact: the waiting time, one word.
+        changed_items=(
+            "Roughen an area a little larger than the patch with the sandpaper.",
+            "Spread a thin, even layer of **rubber cement** over the roughened area.",
+            "Wait until the cement turns from glossy to dull, which takes about two minutes.",
+            "Peel the foil from the patch without touching its sticky side.",
+            "Press the patch onto the tube, centred over the hole, and squeeze it for a minute.",
+            "Leave the clear backing film in place and dust the area with chalk.",
+        ),
     ),
     Block("figure", figure="patch"),
     Block(
@@ -397,7 +408,11 @@ def version_blocks(version: str) -> list[Block]:
         return blocks
     if version == "diagrams-confounded":
         return [
-            replace(block, text=block.split, split="") if block.split else block
+            replace(block, text=block.split, split="")
+            if block.split
+            else replace(block, items=block.changed_items, changed_items=())
+            if block.changed_items
+            else block
             for block in blocks
             if block.tag != REMOVED_TAG
         ]
@@ -521,6 +536,27 @@ def confound_details() -> dict[str, object]:
             "joining_words_removed": sorted((before_words - after_words).elements()),
             "joining_words_added": sorted((after_words - before_words).elements()),
         },
+        "changed_fact": changed_fact(),
+    }
+
+
+def changed_fact() -> dict[str, object]:
+    """The one item whose fact the confounded version states differently, word for word."""
+    [block] = [block for block in LESSON if block.changed_items]
+    pairs = [(a, b) for a, b in zip(block.items, block.changed_items, strict=True) if a != b]
+    if len(pairs) != 1:
+        raise ValueError("the confounded version changes exactly one list item")
+    before, after = (plain(text) for text in pairs[0])
+    changed = [(a, b) for a, b in zip(words(before), words(after), strict=True) if a != b]
+    if len(changed) != 1:
+        raise ValueError("the changed fact is one word")
+    return {
+        "section": section_of(list(LESSON), block),
+        "item": block.items.index(pairs[0][0]) + 1,
+        "before": before,
+        "after": after,
+        "word_before": changed[0][0],
+        "word_after": changed[0][1],
     }
 
 

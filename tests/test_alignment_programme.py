@@ -6,7 +6,7 @@
   when it beats either passage alone by 0.1; ties go to the first move in the order up,
   left, 1-1, 2-1, 1-2. With at most 60 passages the band covers the whole matrix, so both
   must give the same pairs and the same similarities, to the last bit.
-- ``word_opcodes`` (matcheck.compare.content) is checked against the reference library,
+- ``word_opcodes`` (matcheck.compare.wordiff) is checked against the reference library,
   Python's ``difflib.SequenceMatcher(autojunk=False)``, on short sequences, and on long ones
   against edits known by construction.
 """
@@ -22,7 +22,7 @@ import pytest
 from scipy.sparse import csr_matrix
 
 from matcheck.compare import alignment
-from matcheck.compare.content import DIRECT_DIFF_WORDS, word_opcodes
+from matcheck.compare.wordiff import DIRECT_DIFF_WORDS, word_opcodes
 
 
 def _reference_pairs(

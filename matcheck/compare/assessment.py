@@ -36,6 +36,7 @@ from collections import Counter
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
+from matcheck.compare import itemfacts
 from matcheck.compare.content import EXCERPT_WORDS, content_terms, excerpt
 from matcheck.compare.decide import Observation, decide
 from matcheck.errors import ConfigError
@@ -92,15 +93,19 @@ def item_terms(
         factors: dict[str, float] = {}
         if question_at is not None:
             factors.update(dict.fromkeys(analysis.blocks[question_at].terms, 1.0))
+        factors.update(dict.fromkeys(itemfacts.text_facts(item.question), 1.0))
         if answer_at is not None:
             factors.update(dict.fromkeys(analysis.blocks[answer_at].terms, answer_factor))
+        factors.update(dict.fromkeys(itemfacts.text_facts(item.answer), answer_factor))
         result.append(ItemTerms(item, factors))
     return result
 
 
 def unigrams(passage: Passage) -> frozenset[str]:
-    """A passage's content lemmas (its bigrams left out: an item needs words, not phrases)."""
-    return frozenset(term for term in passage.terms if " " not in term)
+    """A passage's content lemmas (its bigrams left out: an item needs words, not phrases) and
+    its fact terms (numbers and units, :mod:`matcheck.compare.itemfacts`)."""
+    lemmas = frozenset(term for term in passage.terms if " " not in term)
+    return lemmas | itemfacts.passage_facts(passage)
 
 
 def coverage(terms: ItemTerms, units: Sequence[Passage], weights: Mapping[str, float]) -> Coverage:
@@ -214,7 +219,15 @@ def _observe(
     evidence: tuple[Evidence, ...] = ()
     beyond = ""
     mismatch = taught[reference] != taught[condition]
-    if mismatch or abs(change) > tolerance.allowed(0.0):
+    facts = frozenset(t for t in terms.factors if t.startswith(itemfacts.PREFIX))
+    restated = (
+        taught[reference]
+        and taught[condition]
+        and itemfacts.stated_differently(facts, ref.present, cond.present)
+    )
+    if restated and not mismatch:  # the more specific reason: which facts each states
+        beyond, evidence = _taught_differently(item.id, facts, reference, ref, condition, cond)
+    elif mismatch or abs(change) > tolerance.allowed(0.0):
         more, less = (reference, condition) if ref.share >= cond.share else (condition, reference)
         good, weak = covered[item.id, more], covered[item.id, less]
         if mismatch:
@@ -226,6 +239,7 @@ def _observe(
             )
         # Heaviest first: the distinctive words the weaker condition lacks.
         missing = sorted(terms.factors.keys() - weak.present, key=lambda t: (-weights[t], t))
+        missing = [itemfacts.label(term) for term in missing]
         assert good.passage is not None  # the better window holds some of the terms
         evidence = (
             Evidence(
@@ -252,8 +266,9 @@ def _observe(
         condition=condition,
         values={reference: ref.share, condition: cond.share},
         difference=change,
-        # Taught in one condition only is beyond any tolerance; else the change of coverage.
-        amount=math.inf if taught[reference] != taught[condition] else change,
+        # Taught in one condition only, or its facts stated differently, is beyond any
+        # tolerance; else the change of coverage.
+        amount=math.inf if mismatch or restated else change,
         tolerance=tolerance,
         evidence=evidence,
         item=item.id,
@@ -282,3 +297,36 @@ def teaching_sentences(text: str, weights: Mapping[str, float], most: int = 2) -
     best = sorted(index for score, index in ranked if score > 0)
     chosen = " … ".join(sentences[i] for i in best) if best else text
     return excerpt(chosen, 2 * EXCERPT_WORDS)
+
+
+def _taught_differently(
+    item_id: str,
+    facts: frozenset[str],
+    reference: str,
+    ref: Coverage,
+    condition: str,
+    cond: Coverage,
+) -> tuple[str, tuple[Evidence, ...]]:
+    """Both conditions teach the item, but state its numbers or units differently."""
+
+    def stated(coverage: Coverage) -> str:
+        found = sorted(itemfacts.label(t) for t in facts & coverage.present)
+        return ", ".join(found) or "none of them"
+
+    wanted = ", ".join(sorted(itemfacts.label(t) for t in facts))
+    reason = (
+        f"{item_id} is taught differently: of its facts ({wanted}) {reference} states "
+        f"{stated(ref)}, {condition} {stated(cond)}"
+    )
+    text_ref, _ = itemfacts.fact_excerpt([ref.passage] if ref.passage else [], facts)
+    text_cond, _ = itemfacts.fact_excerpt([cond.passage] if cond.passage else [], facts)
+    evidence = Evidence(
+        kind=EvidenceKind.ITEM_TAUGHT_DIFFERENTLY,
+        condition=reference,
+        text=text_ref or (excerpt(ref.passage.text) if ref.passage else ""),
+        location=ref.location,
+        weight=ref.share,
+        counterpart=cond.location,
+        counterpart_text=text_cond or (excerpt(cond.passage.text) if cond.passage else ""),
+    )
+    return reason, (evidence,)

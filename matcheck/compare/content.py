@@ -12,13 +12,14 @@
 
 from __future__ import annotations
 
-import difflib
 import heapq
 from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
+from matcheck.compare import edits as word_edits
 from matcheck.compare.alignment import Alignment, align
+from matcheck.compare.wordiff import word_opcodes
 from matcheck.findings import Evidence, EvidenceKind
 from matcheck.language.analysis import Analysis
 from matcheck.measures.key_terms import Passage, fit_tfidf, passages, term_weights
@@ -39,12 +40,6 @@ NOVEL_SHARE = DEFAULT_COMPARISON.novel_share
 MIN_NOVEL_TERMS = DEFAULT_COMPARISON.min_novel_terms
 # Word runs shorter than this inside paired passages are edits, not content (judgment call).
 MIN_RUN_WORDS = DEFAULT_COMPARISON.min_run_words
-# difflib's matcher is quadratic in the words of a pair; longer pairs (a lesson read as one
-# huge block) are first cut at runs of words found once in each (see word_opcodes). Judgment
-# call, as is ANCHOR_WORDS.
-DIRECT_DIFF_WORDS = 4000
-ANCHOR_WORDS = 8
-_ANCHOR_DEPTH = 4
 
 
 @dataclass(frozen=True, slots=True)
@@ -86,6 +81,32 @@ class PairContent:
     moved: tuple[Evidence, ...]
     edits: tuple[Evidence, ...]
     novel_share: float = NOVEL_SHARE
+    # The word-level comparison (matcheck.compare.edits): changed facts, reworded passages.
+    facts: tuple[Evidence, ...] = ()
+    reworded: tuple[Evidence, ...] = ()
+    compared: tuple[word_edits.PairEdits, ...] = ()
+    reference_words: int = 0
+
+    @property
+    def reworded_words(self) -> int:
+        """Content words substituted, added or cut by reworded edits, in every passage."""
+        return sum(found.reworded_words for found in self.compared if not found.rewritten)
+
+    def describe_rewording(self) -> str:
+        """The rewording as a share of the lesson's words (the reference's), and the cosmetic
+        edits counted for information."""
+        share = self.reworded_words / self.reference_words if self.reference_words else 0.0
+        words = "word" if self.reworded_words == 1 else "words"
+        edits = "edit" if self.cosmetic_edits == 1 else "edits"
+        return (
+            f"{self.reworded_words} content {words} reworded, {share:.1%} of the lesson's "
+            f"words; {self.cosmetic_edits} cosmetic {edits} ignored"
+        )
+
+    @property
+    def cosmetic_edits(self) -> int:
+        """Edits that change nothing a learner reads differently (counted, never judged)."""
+        return sum(found.cosmetic for found in self.compared)
 
     @property
     def text_lost(self) -> tuple[Evidence, ...]:
@@ -127,17 +148,22 @@ def excerpt(text: str, words: int = EXCERPT_WORDS) -> str:
     return " ".join(parts[:words]) + (" …" if len(parts) > words else "")
 
 
+def _key_terms(model: ContentModel, name: str, count: int) -> list[tuple[str, float]]:
+    """A version's ``count`` heaviest single terms and their weights."""
+    weights = term_weights(model.normalized, model.versions[name].rows, model.vocabulary)
+    unigrams = ((term, weight) for term, weight in weights.items() if " " not in term)
+    # The same as sorted(...)[:count] (heapq documents it), without sorting every term.
+    return heapq.nsmallest(count, unigrams, key=lambda item: (-item[1], item[0]))
+
+
 def _coverage(model: ContentModel, source: str, target: str, key_terms: int) -> Coverage:
     import numpy as np
 
     src = model.versions[source]
-    weights = term_weights(model.normalized, src.rows, model.vocabulary)
     # Coverage counts single terms: a bigram disappears whenever either neighbour changes
     # ("wait thirty seconds" -> "wait half a minute" loses three), which is rewording, not
     # content; the bigrams still weigh in the TF-IDF model and the passage alignment.
-    unigrams = ((term, weight) for term, weight in weights.items() if " " not in term)
-    # The same as sorted(...)[:KEY_TERMS] (heapq documents it), without sorting every term.
-    key = heapq.nsmallest(key_terms, unigrams, key=lambda item: (-item[1], item[0]))
+    key = _key_terms(model, source, key_terms)
     total = sum(weight for _, weight in key)
     if not total:
         return Coverage(1.0, ())
@@ -201,17 +227,33 @@ def compare_content(
         passage_evidence(EvidenceKind.PASSAGE_ADDED, version, other.passages[j])
         for j in alignment.added
     )
-    rewritten = tuple(
-        passage_evidence(
-            EvidenceKind.PASSAGE_REWRITTEN,
-            reference,
-            ref.passages[pair.left[0]],
-            similarity=pair.similarity,
-            counterpart=other.passages[pair.right[0]].location,
-            counterpart_text=excerpt(" ".join(other.passages[j].text for j in pair.right)),
-        )
-        for pair in alignment.rewritten
+    key_terms = frozenset(
+        term
+        for name in (reference, version)
+        for term, _ in _key_terms(model, name, settings.key_terms)
     )
+    ref_vocabulary, other_vocabulary = _vocabulary(ref), _vocabulary(other)
+
+    def reported(run: list[str], removed: bool) -> bool:  # as text_removed or text_added
+        vocabulary = other_vocabulary if removed else ref_vocabulary
+        return novelty(run, vocabulary, settings.min_novel_terms) >= settings.novel_share
+
+    compared = word_edits.compare_pairs(
+        alignment, ref.passages, other.passages, key_terms, reported, settings.min_run_words
+    )
+    rewritten = tuple(
+        word_edits.changes_evidence(found, EvidenceKind.PASSAGE_REWRITTEN, reference)
+        for found in compared
+        if found.rewritten
+    )
+    reworded = tuple(
+        word_edits.changes_evidence(
+            found, EvidenceKind.TEXT_REWORDED, reference, only=word_edits.EditClass.REWORDED
+        )
+        for found in compared
+        if found.reworded
+    )
+    facts = tuple(e for found in compared for e in word_edits.fact_evidence(found, reference))
     moved = tuple(
         passage_evidence(
             EvidenceKind.PASSAGE_MOVED,
@@ -234,6 +276,10 @@ def compare_content(
         moved=moved,
         edits=edits,
         novel_share=settings.novel_share,
+        facts=facts,
+        reworded=reworded,
+        compared=tuple(compared),
+        reference_words=sum(len(item.words) for item in ref.passages),
     )
 
 
@@ -309,99 +355,3 @@ def _edits(
                     )
                 )
     return evidence
-
-
-Opcode = tuple[str, int, int, int, int]
-
-
-def word_opcodes(a: list[str], b: list[str]) -> list[Opcode]:
-    """difflib opcodes turning ``a`` into ``b``, in near-linear time for long sequences.
-
-    Up to :data:`DIRECT_DIFF_WORDS` words in all this is ``SequenceMatcher(autojunk=False)``
-    itself. Longer pairs are first cut at anchors, as in patience diff: runs of
-    :data:`ANCHOR_WORDS` words that occur exactly once on each side, the longest chain of them
-    in the same order on both. The stretches between anchors are diffed the same way (a few
-    levels deep); a long stretch still without any anchor is reported as replaced whole.
-    """
-    out: list[Opcode] = []
-    _diff_range(a, b, 0, len(a), 0, len(b), out, depth=0)
-    merged: list[Opcode] = []
-    for op in out:  # anchors and stretches leave adjacent "equal" runs: join them
-        if merged and op[0] == "equal" and merged[-1][0] == "equal":
-            last = merged[-1]
-            merged[-1] = ("equal", last[1], op[2], last[3], op[4])
-        else:
-            merged.append(op)
-    return merged
-
-
-def _diff_range(
-    a: list[str],
-    b: list[str],
-    a0: int,
-    a1: int,
-    b0: int,
-    b1: int,
-    out: list[Opcode],
-    *,
-    depth: int,
-) -> None:
-    if a1 - a0 + b1 - b0 <= DIRECT_DIFF_WORDS or a0 == a1 or b0 == b1:
-        if a0 < a1 or b0 < b1:
-            matcher = difflib.SequenceMatcher(None, a[a0:a1], b[b0:b1], autojunk=False)
-            for tag, i1, i2, j1, j2 in matcher.get_opcodes():
-                out.append((tag, a0 + i1, a0 + i2, b0 + j1, b0 + j2))
-        return
-    anchors = _anchors(a, b, a0, a1, b0, b1) if depth < _ANCHOR_DEPTH else []
-    if not anchors:
-        out.append(("replace", a0, a1, b0, b1))
-        return
-    i, j = a0, b0
-    for ai, bj in anchors:
-        _diff_range(a, b, i, ai, j, bj, out, depth=depth + 1)
-        out.append(("equal", ai, ai + ANCHOR_WORDS, bj, bj + ANCHOR_WORDS))
-        i, j = ai + ANCHOR_WORDS, bj + ANCHOR_WORDS
-    _diff_range(a, b, i, a1, j, b1, out, depth=depth + 1)
-
-
-def _anchors(
-    a: list[str], b: list[str], a0: int, a1: int, b0: int, b1: int
-) -> list[tuple[int, int]]:
-    """Starts (in a, in b) of word runs unique on both sides, the longest chain in order."""
-    from bisect import bisect_left
-    from collections import Counter
-
-    k = ANCHOR_WORDS
-    grams_a = [tuple(a[i : i + k]) for i in range(a0, a1 - k + 1)]
-    grams_b = [tuple(b[j : j + k]) for j in range(b0, b1 - k + 1)]
-    count_a, count_b = Counter(grams_a), Counter(grams_b)
-    where_b = {gram: b0 + j for j, gram in enumerate(grams_b) if count_b[gram] == 1}
-    pairs = [
-        (a0 + i, where_b[gram])
-        for i, gram in enumerate(grams_a)
-        if count_a[gram] == 1 and gram in where_b
-    ]
-    # Longest increasing chain of b-starts (patience sorting); pairs come in a-order.
-    tails: list[int] = []
-    tail_at: list[int] = []
-    before = [-1] * len(pairs)
-    for index, (_, j) in enumerate(pairs):
-        slot = bisect_left(tails, j)
-        before[index] = tail_at[slot - 1] if slot else -1
-        if slot == len(tails):
-            tails.append(j)
-            tail_at.append(index)
-        else:
-            tails[slot] = j
-            tail_at[slot] = index
-    chain: list[tuple[int, int]] = []
-    index = tail_at[-1] if tail_at else -1
-    while index >= 0:
-        chain.append(pairs[index])
-        index = before[index]
-    chain.reverse()
-    kept: list[tuple[int, int]] = []
-    for i, j in chain:  # anchors must not overlap
-        if not kept or (i >= kept[-1][0] + k and j >= kept[-1][1] + k):
-            kept.append((i, j))
-    return kept

@@ -8,12 +8,13 @@ Detecting (the measures, the content model) is kept apart from deciding
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import replace
 
 from matcheck.compare.code import code_observations
 from matcheck.compare.content import PairContent, build_model, compare_content
 from matcheck.compare.decide import Observation, decide, decide_mean, decide_sections
 from matcheck.compare.evidence import locate
-from matcheck.findings import Basis, Finding, Group, Spread, Status, Tolerance
+from matcheck.findings import Basis, Evidence, Finding, Group, Spread, Status, Tolerance
 from matcheck.intent import expand_manipulated
 from matcheck.measures import comparisons, registry
 from matcheck.measures.base import MeasureSpec, Profile, Role
@@ -119,6 +120,32 @@ def _content(
     def tolerance(spec: MeasureSpec) -> Tolerance:
         return tolerances.get(spec.id, spec.tolerance)
 
+    sizes = {
+        ref_name: float(len(content.alignment.pairs) + len(content.removed)),
+        name: float(len(content.alignment.pairs) + len(content.added)),
+    }
+
+    def counted(spec: MeasureSpec, evidence: tuple[Evidence, ...], detail: str = "") -> Observation:
+        observation = Observation(
+            spec=spec,
+            reference=ref_name,
+            condition=name,
+            values=dict(sizes),
+            difference=float(len(evidence)),
+            amount=float(len(evidence)),
+            tolerance=tolerance(spec),
+            evidence=evidence,
+        )
+        if not detail:
+            return observation
+        return replace(
+            observation,
+            beyond=f"{observation.beyond} ({detail})",
+            within=f"{observation.within} ({detail})",
+        )
+
+    # Changed facts first: the most dangerous confound, shown first among content findings.
+    yield counted(comparisons.FACTS_CHANGED, content.facts)
     cover_ref = content.coverage_of_reference
     cover_other = content.coverage_of_version
     shortfall = 1.0 - min(cover_ref.share, cover_other.share)
@@ -141,21 +168,10 @@ def _content(
         comparisons.TEXT_REMOVED: content.text_lost,
         comparisons.TEXT_ADDED: content.text_new,
     }
-    sizes = {
-        ref_name: float(len(content.alignment.pairs) + len(content.removed)),
-        name: float(len(content.alignment.pairs) + len(content.added)),
-    }
     for spec, evidence in counts.items():
-        yield Observation(
-            spec=spec,
-            reference=ref_name,
-            condition=name,
-            values=dict(sizes),
-            difference=float(len(evidence)),
-            amount=float(len(evidence)),
-            tolerance=tolerance(spec),
-            evidence=evidence,
-        )
+        yield counted(spec, evidence)
+    # Rewording is judged per passage (its threshold); the lesson's share is said beside it.
+    yield counted(comparisons.PASSAGES_REWORDED, content.reworded, content.describe_rewording())
 
 
 def _spreads(profiles: Mapping[str, Profile], findings: Sequence[Finding]) -> tuple[Spread, ...]:

@@ -76,6 +76,29 @@ TEXT_ADDED = MeasureSpec(
     Tolerance(reason="a sentence added to a passage, with content the reference has nowhere"),
     role=Role.PAIRWISE,
 )
+FACTS_CHANGED = MeasureSpec(
+    "facts_changed",
+    C,
+    "edits",
+    "Numbers, units, negations, comparisons or terms stated differently in a matched passage",
+    Tolerance(
+        reason="a number, unit, negation, comparison or term stated differently is a confound"
+    ),
+    role=Role.PAIRWISE,
+    label="Changed facts",
+    phrase="facts stated differently",
+)
+PASSAGES_REWORDED = MeasureSpec(
+    "passages_reworded",
+    C,
+    "passages",
+    "Matched passages with content words substituted, added or cut (an added clause)",
+    Tolerance(
+        reason="a passage with an added clause or a dropped qualifier says something else "
+        f"(its threshold in content words: {JUDGMENT})"
+    ),
+    role=Role.PAIRWISE,
+)
 ITEM_COVERAGE = MeasureSpec(
     "item_coverage",
     Group.ASSESSMENT,
@@ -91,6 +114,7 @@ ITEM_COVERAGE = MeasureSpec(
 )
 
 SPECS = (
+    FACTS_CHANGED,
     KEY_TERM_COVERAGE,
     PASSAGES_REMOVED,
     PASSAGES_ADDED,
@@ -98,5 +122,6 @@ SPECS = (
     PASSAGES_MOVED,
     TEXT_REMOVED,
     TEXT_ADDED,
+    PASSAGES_REWORDED,
     ITEM_COVERAGE,
 )

@@ -9,6 +9,7 @@ from matcheck.measures import registry
 from matcheck.report.common import GROUP_ORDER, format_difference, format_tolerance, format_value
 from matcheck.report.methods.model import (
     COVERAGE,
+    FACTS,
     PASSAGES,
     POSTTEST,
     TITLE,
@@ -58,6 +59,8 @@ def methods_table(
                 "passages_added", []
             )
             row = _passages_row(measure, found, columns)
+        elif measure.key == FACTS:
+            row = _passages_row(measure, by_dimension.get(FACTS, []), columns)
         elif measure.key == POSTTEST:
             row = _posttest_row(measure, items, columns, report, threshold)
         else:

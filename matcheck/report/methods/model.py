@@ -30,6 +30,8 @@ VERDICTS = {
 COVERAGE = "key_term_coverage"
 PASSAGES = "passages_without_counterpart"
 POSTTEST = "posttest_items_taught"
+# Counted per contrast like the passages row (expected: none), though one spec describes it.
+FACTS = "facts_changed"
 
 
 @dataclass(frozen=True, slots=True)

@@ -5,7 +5,14 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from matcheck.report.methods.model import COVERAGE, NOT_PROOF, PASSAGES, POSTTEST, MethodsRow
+from matcheck.report.methods.model import (
+    COVERAGE,
+    FACTS,
+    NOT_PROOF,
+    PASSAGES,
+    POSTTEST,
+    MethodsRow,
+)
 from matcheck.report.methods.wording import join_list
 from matcheck.settings import DEFAULT_WPM
 
@@ -43,6 +50,11 @@ def table_notes(
         notes.append(
             "Passages without counterpart: passages removed or added against the condition a "
             "version is compared with."
+        )
+    if FACTS in shown:
+        notes.append(
+            "Changed facts: numbers, units, negations, comparisons or terms a version states "
+            "differently from the condition it is compared with (expected: none)."
         )
     notes.append(_reading_rate(words_per_minute))
     if POSTTEST in shown:

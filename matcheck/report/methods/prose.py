@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from matcheck.report.formatter import RenderOptions
-from matcheck.report.methods.model import PASSAGES, MethodsRow, MethodsTable, measure_of
+from matcheck.report.methods.model import FACTS, PASSAGES, MethodsRow, MethodsTable, measure_of
 from matcheck.report.methods.wording import join_list
 from matcheck.settings import DEFAULT_WPM
 
@@ -22,7 +22,7 @@ _CLAUSES = (
 def _phrase(row: MethodsRow, columns: Sequence[str]) -> str:
     measure = measure_of(row.measure)
     known = [(v, n) for v, n in zip(row.values, columns, strict=True) if v != "—"]
-    if row.measure == PASSAGES:  # counted against a counterpart: name whose count it is
+    if row.measure in (PASSAGES, FACTS):  # counted against a counterpart: name whose count
         return f"{measure.phrase} ({join_list([f'{v} for {n}' for v, n in known])})"
     if len(known) < len(columns):  # say whose value is which, and where it is unknown
         missing = [n for v, n in zip(row.values, columns, strict=True) if v == "—"]
