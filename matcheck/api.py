@@ -10,6 +10,7 @@ from contextlib import AbstractContextManager
 from dataclasses import dataclass
 from pathlib import Path
 
+from matcheck.compare.decide import unapplied
 from matcheck.errors import UsageError
 from matcheck.findings import Condition, Report
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
@@ -70,7 +71,10 @@ def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[st
     files = [path.name for path in paths]
     if len(set(files)) == len(files):
         return files
-    return [str(path) for path in paths]
+    full = [str(path) for path in paths]
+    if len(set(full)) == len(full):
+        return full
+    raise UsageError("the same file is given twice; compare needs different versions")
 
 
 def _comparing(limits: ReadLimits) -> AbstractContextManager[None]:
@@ -147,6 +151,7 @@ def compare_versions(
         spreads=spreads,
         words_per_minute=settings.words_per_minute,
         settings=comparison,
+        warnings=tuple(unapplied(findings)),
     )
 
 
@@ -246,7 +251,7 @@ def _study_report(
         words_per_minute=settings.words_per_minute,
         pairings=tuple(Pairing(p.reference, p.condition, p.manipulated, p.factor) for p in pairs),
         title=study.title,
-        warnings=warnings,
+        warnings=(*unapplied(findings), *warnings),
         settings=study.comparison,
         data=data,
     )

@@ -444,6 +444,9 @@ def _limits(allow_outside: bool, overrides: list[str] | None) -> ReadLimits:
     return replace(limits, allow_outside_files=True) if allow_outside else limits
 
 
+_FORMAT_SUFFIXES = {".json", ".md", ".csv", ".tex", ".docx", ".html"}
+
+
 def _formats(subject: Subject) -> str:
     return "Output format: " + ", ".join(names(subject)) + "."
 
@@ -472,6 +475,12 @@ def deliver(
     from matcheck.output import write_output
 
     write_output(output, rendered, inputs)
+    suffix = output.suffix.lower()
+    if suffix in _FORMAT_SUFFIXES and suffix != formatter.extension:
+        sys.stderr.write(
+            f"matcheck: warning: --output {output} ends in {suffix}, but --format "
+            f"{formatter.name} writes {formatter.description}\n"
+        )
 
 
 def _step_summary(formatter: Formatter, reports: Sequence[Report], inputs: Sequence[Path]) -> None:

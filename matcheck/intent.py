@@ -12,6 +12,7 @@ from collections.abc import Iterable
 from matcheck.errors import UsageError
 from matcheck.findings import Group
 from matcheck.measures import registry
+from matcheck.measures.base import Role
 from matcheck.suggest import closest
 
 
@@ -20,7 +21,12 @@ def expand_manipulated(names: Iterable[str]) -> dict[str, str]:
     import matcheck.measures  # noqa: F401  (registers the built-in measures)
 
     dims = registry.compared()
-    groups = [group.value for group in Group]
+    # A design manipulates the materials: the groups that measure them, not the study's data,
+    # power or post-test findings.
+    material = (Role.MEASURED, Role.PAIRWISE)
+    groups = [
+        g.value for g in Group if any(s.group == g and s.role in material for s in dims.values())
+    ]
     intended: dict[str, str] = {}
     for name in names:
         if name in groups:

@@ -102,6 +102,13 @@ def parse_study_toml(text: str, path: Path) -> dict[str, object]:
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as problem:
-        raise ConfigError(f"not valid TOML: {shown(str(problem))}", path=shown(path)) from None
+        hint = (
+            "; each condition is a [[conditions]] table (two brackets)"
+            if "overwrite" in str(problem).lower() or "'conditions'" in str(problem)
+            else ""
+        )
+        raise ConfigError(
+            f"not valid TOML: {shown(str(problem))}{hint}", path=shown(path)
+        ) from None
     except RecursionError:  # tomllib recurses once per nested array or inline table
         raise ConfigError("not a study file: nested too deeply", path=shown(path)) from None

@@ -218,11 +218,38 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
                 raise ConfigError(f"{where}.levels: unknown factor {key!r}", path=shown)
         conditions.append(StudyCondition(name, files, dict(levels)))
     names = [c.name for c in conditions]
-    if len(set(names)) != len(names):
-        raise ConfigError("conditions: two conditions have the same name", path=shown)
+    twice = sorted({n for n in names if names.count(n) > 1})
+    if twice:
+        raise ConfigError(
+            f"conditions: two conditions are named {twice[0]!r}; give each its own name",
+            path=shown,
+        )
     cells = [tuple(sorted(c.levels.items())) for c in conditions]
     if factors and len(set(cells)) != len(cells):
-        raise ConfigError("conditions: two conditions have the same factor levels", path=shown)
+        same = [c.name for c in conditions if cells.count(tuple(sorted(c.levels.items()))) > 1]
+        raise ConfigError(
+            f"conditions: {same[0]!r} and {same[1]!r} have the same factor levels", path=shown
+        )
+    for factor in factors:
+        unused = [
+            lv for lv in factor.levels if all(c.levels[factor.name] != lv for c in conditions)
+        ]
+        if unused:
+            raise ConfigError(
+                f"factors.{factor.name}.levels: {', '.join(map(repr, unused))} is used by no "
+                "condition; remove it or add the condition",
+                path=shown,
+            )
+    by_files: dict[tuple[str, ...], str] = {}
+    for condition in conditions:
+        key = tuple(str(f.resolve()) for f in condition.files)
+        if key in by_files:
+            raise ConfigError(
+                f"conditions {by_files[key]!r} and {condition.name!r} use the same files: a "
+                "manipulation between them cannot be in the materials",
+                path=shown,
+            )
+        by_files[key] = condition.name
 
     reference = study.get("reference", names[0])
     if reference not in names:

@@ -281,7 +281,7 @@ def test_item_whose_teaching_paragraph_is_missing_differs(tmp_path: Path) -> Non
     assert bloom.values["full"] is not None and bloom.values["full"] >= DEFAULT_COVERAGE
     assert bloom.values["cut"] is not None and bloom.values["cut"] < DEFAULT_COVERAGE
     assert bloom.difference == pytest.approx(bloom.values["cut"] - bloom.values["full"])
-    assert bloom.tolerance is not None and bloom.tolerance.absolute == 0.15
+    assert bloom.tolerance is not None and bloom.tolerance.absolute == 0.10
     taught, not_taught = bloom.evidence
     assert taught.kind == "item_taught" and taught.condition == "full"
     # By construction the bloom paragraph is body paragraph 2 of "full".
@@ -463,7 +463,7 @@ def test_demo_posttest_text_only_against_confounded() -> None:
 
 def test_a_drop_of_coverage_beyond_tolerance_differs_though_both_teach() -> None:
     # By construction: b keeps "bloom" but loses "release" and "gas"; at a threshold of 0.3
-    # both versions teach the item, and the drop (well over 15 points) is still reported.
+    # both versions teach the item, and the drop (well over 10 points) is still reported.
     analyses = {
         "a": _lesson("a", ["Coffee bloom releases gas.", "Coffee grinder."]),
         "b": _lesson("b", ["Coffee bloom here.", "Coffee grinder."]),
@@ -473,7 +473,7 @@ def test_a_drop_of_coverage_beyond_tolerance_differs_though_both_teach() -> None
     (finding,) = findings
     a, b = finding.values["a"], finding.values["b"]
     assert a is not None and b is not None
-    assert b >= 0.2 and a - b > 0.15  # taught in both (threshold 0.2), fell by over 0.15
+    assert b >= 0.2 and a - b > 0.10  # taught in both (threshold 0.2), fell by over 0.10
     assert finding.status is Status.DIFFERS
     assert finding.reason.endswith("taught differently")
     assert [e.kind.value for e in finding.evidence] == ["item_taught", "item_covered_less"]
@@ -481,8 +481,11 @@ def test_a_drop_of_coverage_beyond_tolerance_differs_though_both_teach() -> None
 
 
 def test_a_small_drop_of_coverage_is_within_tolerance() -> None:
-    # Eight answer terms; b lacks one ("fresh"), about a seventh of the weight.
-    answer = "The bloom releases carbon dioxide gas from fresh roasted beans."
+    # Fourteen answer terms; b lacks one ("fresh"), under a tenth of the weight.
+    answer = (
+        "The bloom releases carbon dioxide gas from fresh roasted beans and grounds when hot "
+        "water first wets them evenly in the brewer."
+    )
     analyses = {
         "a": _lesson("a", [f"Wait for it. {answer}", "Tea kettle."]),
         "b": _lesson("b", [f"Wait for it. {answer.replace('fresh ', '')}", "Tea kettle."]),
@@ -491,5 +494,5 @@ def test_a_small_drop_of_coverage_is_within_tolerance() -> None:
     findings, _ = assess_posttest([item], analyses, [("a", "b")], threshold=0.3)
     (finding,) = findings
     a, b = finding.values["a"], finding.values["b"]
-    assert a is not None and b is not None and 0 < a - b <= 0.15
+    assert a is not None and b is not None and 0 < a - b <= 0.10
     assert finding.status is Status.MATCHED

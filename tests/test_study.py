@@ -177,7 +177,19 @@ def _error(tmp_path: Path, text: str) -> str:
         ),
         (lambda s: s + '\n[tolerances]\nwords = "lots"\n', "[tolerances]"),
         (lambda s: s + "\n[tolerances]\nvibes = 3\n", "unknown measure 'vibes'"),
-        (lambda s: s.replace('name = "text-plain"', 'name = "text-bold"'), "same name"),
+        (
+            lambda s: s.replace('name = "text-plain"', 'name = "text-bold"'),
+            "two conditions are named 'text-bold'",
+        ),
+        (
+            lambda s: s.replace('levels = ["none", "with"]', 'levels = ["none", "with", "video"]'),
+            "factors.diagrams.levels: 'video' is used by no condition",
+        ),
+        (
+            lambda s: s.replace('files = ["text-plain.md"]', 'files = ["text-bold.md"]'),
+            "conditions 'text-bold' and 'text-plain' use the same files",
+        ),
+        (lambda s: s + '\n[conditions]\nname = "x"\n', "[[conditions]] table (two brackets)"),
         (lambda s: s.replace("[study]", "[study"), "not valid TOML"),
         (lambda s: s + '\n[posttest]\nfiles = ["quiz.md"]\n', "posttest.files: "),
         (

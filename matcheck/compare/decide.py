@@ -258,3 +258,19 @@ def decide_sections(
         "though the whole-lesson mean is closer: a possible confound"
     )
     return Basis.BEYOND_TOLERANCE, reason, test
+
+
+def unapplied(findings: Sequence[Finding]) -> list[str]:
+    """Pairs whose declared manipulation shows no difference at all: the manipulation may be
+    missing from the files (or the wrong file named), which no verdict would reveal."""
+    declared: dict[tuple[str, str], list[Finding]] = {}
+    for finding in findings:
+        if finding.basis is Basis.DECLARED and finding.item is None:
+            declared.setdefault((finding.reference, finding.condition), []).append(finding)
+    return [
+        f"{condition} vs {reference}: nothing that the design manipulates differs "
+        f"({', '.join(sorted({f.reason.removeprefix('manipulated (').rstrip(')') for f in found}))}"
+        "); check that the manipulation is in the files"
+        for (reference, condition), found in declared.items()
+        if all(f.difference == 0 for f in found)
+    ]

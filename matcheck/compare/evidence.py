@@ -43,7 +43,7 @@ def _evidence(
     dimension = finding.dimension
     if finding.caused_by:
         return []
-    if dimension in ("words", "paragraphs", "sentences"):
+    if dimension in ("words", "paragraphs", "sentences", "characters", "reading_time"):
         return [*content.removed, *content.added, *content.edits]
     names = (finding.reference, finding.condition)
     if dimension == "words_per_sentence":

@@ -16,6 +16,8 @@ from matcheck.findings import Tolerance
 from matcheck.measures import registry
 from matcheck.suggest import closest
 
+# Units that count whole things: a tolerance below one of them is almost surely a share.
+_COUNTS = {"words", "sentences", "paragraphs", "characters", "terms", "figures", "captions"}
 _OVERRIDE = re.compile(r"^\s*([a-z0-9_]+)\s*=\s*([0-9]*\.?[0-9]+)\s*(%?)\s*$")
 
 
@@ -48,6 +50,12 @@ def parse_tolerances(
             raise UsageError(
                 f"--tolerance {text!r}: {name} is judged from zero, so give a number "
                 f"(e.g. {name}={'0.2' if name == 'key_term_coverage' else '1'}), not a percentage"
+            )
+        spec = known[name]
+        if not percent and value < 1 and spec.tolerance.relative and spec.unit in _COUNTS:
+            raise UsageError(
+                f"--tolerance {text!r}: {name} counts {spec.unit}, so {value:g} means less than "
+                f"one {spec.unit.rstrip('s')}; for a share write {name}={value * 100:g}%"
             )
         tolerances[name] = (
             Tolerance(relative=value / 100, reason="set by the user")

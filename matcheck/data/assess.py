@@ -500,8 +500,10 @@ def _time_finding(data: LearnerData, spec: DataSpec, pair: tuple[str, str]) -> F
         f"mean {a.mean:.1f} vs {b.mean:.1f} minutes: {verdict} "
         f"(TOST p = {equivalence.p:.3f} within ±{bound:.3g} minutes; t-test p = {difference.p:.3f})"
     )
-    if status is not Status.MATCHED:
+    if status is Status.DIFFERS:
         reason += "; time, not the manipulation, may explain a difference in learning"
+    elif status is Status.INCONCLUSIVE:
+        reason += "; too few learners or too varied times to show equal exposure"
     return _finding(
         "time_on_task",
         "groups",
@@ -511,7 +513,7 @@ def _time_finding(data: LearnerData, spec: DataSpec, pair: tuple[str, str]) -> F
         {pair[0]: a.mean, pair[1]: b.mean},
         b.mean - a.mean,
         reason,
-        tolerance=Tolerance(absolute=bound, reason="equivalence bounds of the TOST"),
+        tolerance=Tolerance(absolute=round(bound, 2), reason="equivalence bounds of the TOST"),
         test=StatTest(
             "TOST",
             equivalence.p,

@@ -105,9 +105,10 @@ ITEM_COVERAGE = MeasureSpec(
     "share",
     "Coverage of each post-test item's terms; taught at the study's threshold",
     Tolerance(
-        absolute=0.15,
+        absolute=0.10,
         reason="an item taught in one condition must be taught in the other, and its coverage "
-        f"may not fall by more than 15 points; {JUDGMENT}",
+        f"may not fall by more than 10 points (removing an item's teaching passage moved it "
+        f"14 points in a trial lesson); {JUDGMENT}",
     ),
     role=Role.ITEM,
     label="Post-test item",

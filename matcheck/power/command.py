@@ -185,9 +185,10 @@ def _from_difference(request: Request) -> Request:
     if request.effect_measure not in (None, Measure.D.value):
         raise UsageError("--difference with --sd states d: leave out --effect-measure f")
     _check("sd", request.sd, "--sd")
-    _check("effect", request.difference, "--difference")
-    return replace(request, effect=d_from_difference(request.difference, request.sd),
-                   effect_measure=Measure.D.value)  # fmt: skip
+    _check("difference", request.difference, "--difference")
+    effect = d_from_difference(request.difference, request.sd)
+    _check("effect", effect, "--difference / --sd")
+    return replace(request, effect=effect, effect_measure=Measure.D.value)
 
 
 def _measure(design: Design, text: str | None) -> Measure:

@@ -10,7 +10,14 @@ from collections.abc import Callable
 
 # name → (accepts, what it must be)
 RULES: dict[str, tuple[Callable[[float], bool], str]] = {
-    "effect": (lambda v: v > 0, "an effect size above 0"),
+    # Above 5 SD is no effect a study of instruction plans for: almost surely points or a
+    # percentage given where d (or f) is meant (Cohen 1988: 0.2 small, 0.5 medium, 0.8 large).
+    "effect": (
+        lambda v: 0 < v <= 5,
+        "an effect size above 0 and at most 5, in standard deviations (d 0.2 small, 0.5 medium, "
+        "0.8 large)",
+    ),
+    "difference": (lambda v: v > 0, "a difference between means above 0"),
     "sd": (lambda v: v > 0, "a standard deviation above 0"),
     "power": (lambda v: 0 < v < 1, "a power between 0 and 1 (both excluded)"),
     "alpha": (lambda v: 0 < v <= 0.5, "an alpha in (0, 0.5]"),

@@ -77,6 +77,12 @@ def _read_csv(path: Path, limits: ReadLimits) -> list[PostTestItem]:
         data = path.read_bytes()
     except OSError as error:
         raise InputError(f"cannot be read ({error.strerror})", path=shown) from None
+    if data.startswith((b"PK\x03\x04", b"%PDF-", b"\xd0\xcf\x11\xe0")):
+        raise InputError(
+            "is named .csv but is not CSV text (it looks like a Word, PDF or other binary "
+            "file); export the post-test as CSV, or give the document with its own extension",
+            path=shown,
+        )
     text, _ = decode_lesson_text(data, path)
     try:
         rows = list(csv.reader(io.StringIO(text, newline="")))

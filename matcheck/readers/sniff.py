@@ -23,6 +23,22 @@ EXTENSIONS = {
     ".text": "text",
 }
 
+# Text files that are not lessons, and what to say about them.
+NOT_LESSONS = {
+    ".toml": "a study file (TOML): `check` and `table` take it, `compare` takes lessons",
+    ".csv": "a CSV file (a post-test or learners' data belongs in the study file)",
+    ".tsv": "a table of values, not a lesson",
+    ".json": "a JSON file, not a lesson",
+    ".yaml": "a YAML file, not a lesson",
+    ".yml": "a YAML file, not a lesson",
+    ".svg": "an SVG image, not a lesson (a figure belongs inside the lesson)",
+    ".xml": "an XML file, not a lesson",
+    ".html": "an HTML page, not a lesson (save it as .docx or .md)",
+    ".htm": "an HTML page, not a lesson (save it as .docx or .md)",
+    ".odt": "an OpenDocument file (.odt) (save it as .docx)",
+    ".rtf": "an RTF document (save it as .docx)",
+}
+
 _PDF_VERSION = re.compile(rb"%PDF-\d\.\d")
 _PDF_OBJECT = re.compile(rb"\n\d+ \d+ obj\b")
 _ZIP_MAGIC = (b"PK\x03\x04", b"PK\x05\x06")
@@ -102,6 +118,8 @@ def sniff_format(head: bytes, path: Path) -> str:
             raise UnsupportedFormat(f"this is {what}, not a lesson document", path=shown)
     if _looks_binary(head):
         raise UnsupportedFormat("the file is binary, not DOCX, PDF, Markdown or text", path=shown)
+    if path.suffix.lower() in NOT_LESSONS:
+        raise UnsupportedFormat(f"this is {NOT_LESSONS[path.suffix.lower()]}", path=shown)
     if EXTENSIONS.get(path.suffix.lower()) == "text":
         return "text"
     if EXTENSIONS.get(path.suffix.lower()) in {"markdown", None}:

@@ -62,7 +62,7 @@ def format_difference(finding: Finding, *, short: bool = False) -> str:
         and finding.difference
         and finding.unit not in ("share", "grade", "points", "score", "SD")
     ):
-        return f"{sign}{text} ({relative * 100:+.0f}%)"
+        return f"{sign}{text} ({sign}{abs(relative) * 100:.1f}%)"
     return f"{sign}{text}"
 
 
@@ -144,7 +144,8 @@ def is_new(report: Report, finding: Finding) -> bool:
 
 def review_split(report: Report) -> tuple[list[Finding], list[Finding]]:
     """With --against: the root differences new since the revision, and those already there."""
-    roots = report.root_findings(Status.DIFFERS)
+    # Findings of the study as a whole (its power, its post-test) belong to no pair of versions.
+    roots = [f for f in report.root_findings(Status.DIFFERS) if f.reference and f.condition]
     new = [f for f in roots if is_new(report, f)]
     return new, [f for f in roots if not is_new(report, f)]
 
