@@ -150,14 +150,18 @@ def compare(
     name_list = [n.strip() for n in names.split(",")] if names else None
     labels = version_names(files, name_list)
     versions = [Version(label, (path,)) for label, path in zip(labels, files, strict=True)]
-    report = compare_versions(
-        versions,
-        reference=reference,
-        manipulated=manipulated or (),
-        tolerance_overrides=tolerance or (),
-        settings=Settings(words_per_minute=wpm),
-        limits=_limits(allow_outside, limit),
-    )
+    from matcheck.progress import terminal_steps
+
+    with terminal_steps(len(versions) + 1, "Comparing") as steps:
+        report = compare_versions(
+            versions,
+            reference=reference,
+            manipulated=manipulated or (),
+            tolerance_overrides=tolerance or (),
+            settings=Settings(words_per_minute=wpm),
+            limits=_limits(allow_outside, limit),
+            steps=steps,
+        )
     deliver_all(targets, report, files)
     return exit_status([report])
 
@@ -219,8 +223,12 @@ def check(
         report = check_against(study, against, extra_tolerances=tolerance or (), limits=limits)
     else:
         from matcheck.api import check_study
+        from matcheck.progress import terminal_steps
 
-        report = check_study(loaded, extra_tolerances=tolerance or (), limits=limits)
+        with terminal_steps(len(loaded.conditions) + 1, "Checking") as steps:
+            report = check_study(
+                loaded, extra_tolerances=tolerance or (), limits=limits, steps=steps
+            )
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
     deliver_all(targets, report, inputs, options)
     _step_summary([f for f, _ in targets], [report], inputs)
@@ -248,8 +256,11 @@ def table(
                 f"--format {formatter.name} writes a binary file: give it with --output FILE"
                 f"{formatter.extension}"
             )
+    from matcheck.progress import terminal_steps
+
     loaded = load_study(study, allow_outside=allow_outside)
-    report = check_study(loaded, limits=_limits(allow_outside, None))
+    with terminal_steps(len(loaded.conditions) + 1, "Checking") as steps:
+        report = check_study(loaded, limits=_limits(allow_outside, None), steps=steps)
     built = methods_table(report, coverage_threshold=loaded.coverage_threshold)
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
     deliver_all(targets, built, inputs)
