@@ -302,7 +302,10 @@ def _finding_row(finding: Finding, is_echo: bool, pairing: Pairing, anchors: _An
     name = ("↳ " if is_echo else "") + finding.name
     reference, condition = pairing.reference, pairing.condition
     return (
-        f'<tr id="{anchors.finding(finding)}" class="finding status-{finding.status.value}">'
+        f'<tr id="{anchors.finding(finding)}" class="finding status-{finding.status.value}" '
+        f'data-reference="{escape(finding.reference)}" '
+        f'data-condition="{escape(finding.condition)}" '
+        f'data-key="{escape(finding.key)}" data-status="{finding.status.value}">'
         f"<td>{mark(finding.status)}</td><td>{escape(finding.group.value)}</td>"
         f'<td class="measure">{escape(name)}</td>'
         f'<td class="num">{escape(_value(finding, reference))}</td>'
