@@ -29,6 +29,7 @@ from matcheck.findings import (
     StudyResult,
 )
 from matcheck.measures import registry
+from matcheck.measures.comparisons import ITEM_COVERAGE
 from matcheck.report.common import (
     STATUS_ORDER,
     describe_evidence,
@@ -508,10 +509,11 @@ def _grid(report: Report, dimension: str, findings: list[Finding], anchors: _Anc
             value = next(
                 (f.values.get(name) for f in involved if f.values.get(name) is not None), None
             )
-            status = _worst(
-                f for f in involved if f.condition == name or f.status is not Status.MATCHED
-            )
+            status = _worst(involved)
             text = format_value(value, first.unit, dimension)
+            if dimension == ITEM_COVERAGE.id and value is not None:
+                threshold = report.settings.coverage_threshold
+                text += " taught" if value >= threshold else " not taught"
             cell = mark(status, text) if status is not None else escape(text)
             link = "".join(
                 f' <a href="#{anchors.finding(f)}" title="finding">›</a>'
@@ -520,7 +522,20 @@ def _grid(report: Report, dimension: str, findings: list[Finding], anchors: _Anc
             )
             parts.append(f"<td>{cell}{link}</td>")
         parts.append("</tr>")
-    parts.append("</tbody></table></div>")
+    parts.append("</tbody></table>")
+    if dimension == ITEM_COVERAGE.id:
+        parts.append(
+            f'<p class="hint">Each cell: the share of the item\'s weighted terms the version '
+            f"covers; taught from {report.settings.coverage_threshold * 100:g}% (the study's "
+            "coverage threshold). The mark is the worst verdict of the contrasts the version "
+            "takes part in; › leads to a finding that is not matched.</p>"
+        )
+    else:
+        parts.append(
+            '<p class="hint">The mark is the worst verdict of the contrasts the version takes '
+            "part in; › leads to a finding that is not matched.</p>"
+        )
+    parts.append("</div>")
     return "".join(parts)
 
 
@@ -565,7 +580,11 @@ def _passage(
     here = item.condition
     there = pair[1] if here == pair[0] else pair[0]
     place = item.location.describe() if item.location else "place unknown"
-    if item.counterpart is not None and item.counterpart_text and item.kind not in NOT_PASSAGES:
+    if (
+        item.counterpart is not None
+        and item.counterpart_text
+        and item.kind not in NOT_PASSAGES | ONE_LINE
+    ):
         mine, theirs = word_diff(item.text, item.counterpart_text)
         if here != pair[0]:
             mine, theirs = theirs, mine
