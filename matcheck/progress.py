@@ -12,7 +12,7 @@ import sys
 import threading
 from collections.abc import Iterator
 from contextlib import contextmanager
-from typing import TYPE_CHECKING, Protocol
+from typing import TYPE_CHECKING, Protocol, TextIO
 
 if TYPE_CHECKING:
     from rich.progress import Progress, TaskID
@@ -38,8 +38,8 @@ SILENT = Silent()
 class _Bar:
     """Counts steps from the start; draws them once the delay has passed."""
 
-    def __init__(self, total: int, title: str) -> None:
-        self.total, self.title = total, title
+    def __init__(self, total: int, title: str, stream: TextIO) -> None:
+        self.total, self.title, self.stream = total, title, stream
         self.done = -1
         self.label = ""
         self._lock = threading.Lock()
@@ -72,7 +72,7 @@ class _Bar:
                 TextColumn("{task.description}", markup=False),
                 BarColumn(),
                 MofNCompleteColumn(),
-                console=Console(file=sys.stderr),
+                console=Console(file=self.stream),
                 transient=True,
             )
             self._task = self._progress.add_task(
@@ -92,13 +92,14 @@ class _Bar:
 
 
 @contextmanager
-def terminal_steps(total: int, title: str, *, enabled: bool | None = None) -> Iterator[Steps]:
-    """A :class:`Steps` that shows a bar of ``total`` steps on stderr after :data:`DELAY`
-    seconds, when stderr is a terminal (or when ``enabled`` says so)."""
-    if not (sys.stderr.isatty() if enabled is None else enabled):
+def terminal_steps(total: int, title: str, stream: TextIO | None = None) -> Iterator[Steps]:
+    """A :class:`Steps` that shows a bar of ``total`` steps on ``stream`` (stderr) after
+    :data:`DELAY` seconds, when the stream is a terminal."""
+    stream = stream or sys.stderr
+    if not stream.isatty():
         yield SILENT
         return
-    bar = _Bar(total, title)
+    bar = _Bar(total, title, stream)
     bar.start()
     try:
         yield bar
