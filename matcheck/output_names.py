@@ -1,6 +1,6 @@
 """Where each format goes when one run writes several (``--format html --format json -o report``).
 
-The rule (docs/formats.md, "Several formats from one run"):
+The rule (docs/outputs.md, "Several formats from one run"):
 
 - one ``--format``: as always, stdout or the ``--output`` file exactly as given;
 - several: ``--output`` is required and names the *stem*: each format writes the stem plus its

@@ -5,7 +5,8 @@ JSON report is on the page, every chart is an SVG with marks and a size, every i
 leads somewhere, no request leaves the file, the console stays silent, the print style drops
 the navigation, and the screenshot is not blank. A probe page first shows that the request and
 console checks can fail. Where Chromium is missing the test says how to install it; when the
-environment variable CI is set (as .ci/run and CI services do) it must run.
+environment variable CI is set (as .ci/run and CI services do) it must run. The protocol's
+messages: docs/references.md §27.
 """
 
 from __future__ import annotations

@@ -188,6 +188,32 @@ def test_word_diff_follows_difflib_opcodes() -> None:
     assert word_diff("x < y", "x > y")[0] == 'x <del class="changed" title="changed">&lt;</del> y'
 
 
+def _luminance(colour: str) -> float:
+    # Source: WCAG 2.1, definition of relative luminance; docs/references.md §27.
+    def linear(c: float) -> float:
+        return c / 12.92 if c <= 0.03928 else ((c + 0.055) / 1.055) ** 2.4
+
+    r, g, b = (linear(int(colour[i : i + 2], 16) / 255) for i in (1, 3, 5))
+    return 0.2126 * r + 0.7152 * g + 0.0722 * b
+
+
+def _contrast(one: str, other: str) -> float:
+    # Source: WCAG 2.1, definition of contrast ratio; docs/references.md §27.
+    high, low = sorted((_luminance(one), _luminance(other)), reverse=True)
+    return (high + 0.05) / (low + 0.05)
+
+
+def test_colours_meet_the_contrast_the_docs_promise() -> None:
+    from matcheck.report.svg import BAND_EDGE, COLOURS, REFERENCE_COLOUR
+
+    assert _contrast("#000000", "#ffffff") == pytest.approx(21.0)  # the scale's top
+    # Text contrast (WCAG 1.4.3: 4.5:1); docs/html-report.md promises 6:1.
+    for colour in (*COLOURS.values(), REFERENCE_COLOUR):
+        assert _contrast(colour, "#ffffff") >= 6.0, colour
+    # Non-text contrast (WCAG 1.4.11: 3:1) for the band's edge.
+    assert _contrast(BAND_EDGE, "#ffffff") >= 3.0
+
+
 def test_chart_marks_each_verdict_by_shape() -> None:
     from matcheck.report.svg import ChartRow
 

@@ -16,7 +16,8 @@ from html import escape
 
 from matcheck.findings import Status
 
-# Colours of our own choosing, dark enough to print in greyscale (docs/html-report.md).
+# Colours of our own choosing, each at least 6:1 against white (WCAG 2.1 contrast,
+# docs/references.md §27); in greyscale they look alike, which is why the shapes differ.
 COLOURS = {
     Status.DIFFERS: "#a4262c",
     Status.INCONCLUSIVE: "#7a5c00",

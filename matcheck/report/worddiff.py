@@ -1,7 +1,8 @@
 """Two passages side by side with their removed, added and changed words marked (HTML).
 
 For display only: the comparison itself aligns passages by TF-IDF (compare/content.py); this
-marks the words a reader should look at, with :mod:`difflib` on whitespace-separated words.
+marks the words a reader should look at, with :mod:`difflib` on whitespace-separated words
+(docs/references.md §27).
 Every word is escaped. Marks read without colour: a removed word is struck through, an added
 word underlined, a changed word boxed with a dotted line (docs/html-report.md).
 """
