@@ -257,12 +257,15 @@ def _measure_rows(report: Report) -> list[dict[str, Any]]:
     from matcheck.measures import registry
 
     reference = {c.name: c.is_reference for c in report.conditions}
+    # Only the versions: findings on one sample (the pilot's post-test) have no version.
     seen: dict[tuple[str, str], dict[str, Any]] = {}
     for finding in report.findings:
         spec = registry.spec(finding.dimension)
         if finding.item is not None or (spec is not None and spec.from_zero):
             continue
         for name in (finding.reference, finding.condition):
+            if name not in reference:
+                continue
             seen.setdefault(
                 (name, finding.dimension),
                 {

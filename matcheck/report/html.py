@@ -11,6 +11,7 @@ of the user's text goes through :func:`html.escape`.
 
 from __future__ import annotations
 
+import math
 import re
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
@@ -231,11 +232,23 @@ def _legend() -> str:
     return '<p class="legend"><b>Key:</b> ' + " · ".join(items) + "</p>"
 
 
-def _pair_name(pairing: Pairing) -> str:
-    return f"{pairing.condition} vs {pairing.reference}"
+def _contrasts(report: Report) -> tuple[Pairing, ...]:
+    """The report's comparisons, then any other pair its findings name: the learners' data
+    and the post-test's quality are judged on one sample (reference and condition the same),
+    and later findings may name pairs of their own."""
+    pairs = report.pairs()
+    known = {(p.reference, p.condition) for p in pairs}
+    extra = dict.fromkeys(
+        (f.reference, f.condition)
+        for f in report.findings
+        if (f.reference, f.condition) not in known
+    )
+    return (*pairs, *(Pairing(reference, condition) for reference, condition in extra))
 
 
 def _pair_title(pairing: Pairing) -> str:
+    if pairing.reference == pairing.condition:
+        return f"{escape(pairing.condition)} (on its own)"
     text = f"{escape(pairing.condition)} vs {escape(pairing.reference)} (reference)"
     if pairing.factor:
         text += f" — contrast of {escape(pairing.factor)}"
@@ -245,18 +258,23 @@ def _pair_title(pairing: Pairing) -> str:
 
 
 def _summary(report: Report, groups: list[Group], anchors: _Anchors) -> str:
+    """A row per group, a column per contrast: the worst verdict of the group's root findings
+    and how many findings have it. Contrasts are columns because groups grow with the study
+    (its data, its power) while a design has few contrasts; a wide table scrolls on its own."""
+    contrasts = _contrasts(report)
     parts = [f'<section id="{anchors.section("summary")}"><h2>Summary</h2>']
-    parts.append('<table class="summary"><thead><tr><th>Contrast</th>')
-    parts += [
-        f'<th><a href="#{anchors.section("group-" + g.value)}">{escape(g.value)}</a></th>'
-        for g in groups
-    ]
+    parts.append('<div class="wide"><table class="summary"><thead><tr><th>Group</th>')
+    parts += [f"<th>{_pair_head(p)}</th>" for p in contrasts]
     parts.append("</tr></thead><tbody>")
-    for pairing in report.pairs():
-        findings = [f for f in report.findings_of(pairing) if f.caused_by is None]
-        parts.append(f"<tr><th scope=row>{_pair_title(pairing)}</th>")
-        for group in groups:
-            in_group = [f for f in findings if f.group is group]
+    for group in groups:
+        parts.append(
+            f'<tr><th scope=row><a href="#{anchors.section("group-" + group.value)}">'
+            f"{escape(group.value)}</a></th>"
+        )
+        for pairing in contrasts:
+            in_group = [
+                f for f in report.findings_of(pairing) if f.caused_by is None and f.group is group
+            ]
             status = _worst(in_group)
             if status is None:
                 parts.append("<td>—</td>")
@@ -265,8 +283,21 @@ def _summary(report: Report, groups: list[Group], anchors: _Anchors) -> str:
             label = f"{status.value}" + (f" ({count})" if status is not Status.MATCHED else "")
             parts.append(f"<td>{mark(status, label)}</td>")
         parts.append("</tr>")
-    parts.append("</tbody></table></section>")
+    parts.append("</tbody></table></div>")
+    factors = [p for p in contrasts if p.factor or p.manipulated]
+    if factors:
+        parts.append("<ul class=contrasts>")
+        parts += [f"<li>{_pair_title(p)}</li>" for p in factors]
+        parts.append("</ul>")
+    parts.append("</section>")
     return "".join(parts)
+
+
+def _pair_head(pairing: Pairing) -> str:
+    """A contrast as a column header: the version, then the reference in small type."""
+    if pairing.reference == pairing.condition:
+        return f"{escape(pairing.condition)}<br><small>on its own</small>"
+    return f"{escape(pairing.condition)}<br><small>vs {escape(pairing.reference)}</small>"
 
 
 def _conditions(report: Report, anchors: _Anchors) -> str:
@@ -324,15 +355,17 @@ def _value(finding: Finding, name: str) -> str:
 def _findings_table(rows: list[str], pairing: Pairing) -> str:
     head = (
         "<table class=findings><thead><tr><th>Verdict</th><th>Group</th><th>Measure</th>"
-        f"<th>{escape(pairing.reference)}</th><th>{escape(pairing.condition)}</th>"
-        "<th>Difference</th><th>Tolerance</th><th>Why</th><th>See</th></tr></thead><tbody>"
+        f'<th class="num">{escape(pairing.reference)}</th>'
+        f'<th class="num">{escape(pairing.condition)}</th>'
+        '<th class="num">Difference</th><th class="num">Tolerance</th><th>Why</th><th>See</th>'
+        "</tr></thead><tbody>"
     )
     return head + "".join(rows) + "</tbody></table>"
 
 
 def _findings(report: Report, anchors: _Anchors) -> str:
     parts = [f'<section id="{anchors.section("findings")}"><h2>Findings</h2>']
-    for pairing in report.pairs():
+    for pairing in _contrasts(report):
         parts.append(f"<h3>{_pair_title(pairing)}</h3>")
         ordered = ordered_with_echoes(list(report.findings_of(pairing)))
         shown = [
@@ -420,7 +453,7 @@ def _chartable(dimension: str, findings: Sequence[Finding]) -> bool:
 def _chart(report: Report, dimension: str, findings: list[Finding], anchors: _Anchors) -> str:
     rows = []
     unit = ""
-    for pairing in report.pairs():
+    for pairing in _contrasts(report):
         finding = next(
             (f for f in report.findings_of(pairing) if f.dimension == dimension and f.item is None),
             None,
@@ -428,20 +461,30 @@ def _chart(report: Report, dimension: str, findings: list[Finding], anchors: _An
         if finding is None:
             continue
         unit = finding.unit
-        reference = finding.values.get(pairing.reference)
         value = finding.values.get(pairing.condition)
+        alone = pairing.reference == pairing.condition
+        reference = None if alone else finding.values.get(pairing.reference)
         low = high = None
-        if reference is not None and finding.tolerance is not None:
+        # The band is drawn only where the tolerance is on the values' own scale: a baseline
+        # judged in standard deviations shows its means, and its difference in words.
+        on_scale = (
+            reference is not None
+            and value is not None
+            and finding.difference is not None
+            and math.isclose(finding.difference, value - reference, rel_tol=1e-6, abs_tol=1e-9)
+        )
+        if on_scale and reference is not None and finding.tolerance is not None:
             allowed = finding.tolerance.allowed(reference)
             low, high = reference - allowed, reference + allowed
         shown = format_value(value, finding.unit, dimension)
-        text = (
-            f"{format_value(reference, finding.unit, dimension)} → {shown} · {finding.status.value}"
-        )
+        before = "" if alone else f"{format_value(reference, finding.unit, dimension)} → "
+        text = f"{before}{shown} · {finding.status.value}"
+        if not on_scale and not alone and finding.difference is not None:
+            text += f" (difference {format_difference(finding)} {finding.unit})"
         rows.append(
             ChartRow(
                 pairing.condition,
-                pairing.reference,
+                "" if alone else pairing.reference,
                 reference,
                 value,
                 low,
@@ -461,11 +504,9 @@ def _chart(report: Report, dimension: str, findings: list[Finding], anchors: _An
 def _counts(report: Report, group: Group, dimensions: list[str], anchors: _Anchors) -> str:
     """Counts found by comparing a pair (passages removed, added...): a row per count, a
     column per contrast, each cell the count with its verdict's mark."""
-    pairs = report.pairs()
+    pairs = _contrasts(report)
     parts = [f'<table class="counts" id="{anchors.counts(group.value)}"><thead><tr><th>Count</th>']
-    parts += [
-        f"<th>{escape(p.condition)}<br><small>vs {escape(p.reference)}</small></th>" for p in pairs
-    ]
+    parts += [f"<th>{_pair_head(p)}</th>" for p in pairs]
     parts.append("</tr></thead><tbody>")
     for dimension in dimensions:
         spec = registry.spec(dimension)
@@ -547,7 +588,7 @@ def _passages(report: Report, anchors: _Anchors) -> str:
         "measures.</p>"
     )
     any_shown = False
-    for pairing in report.pairs():
+    for pairing in _contrasts(report):
         entries: dict[str, tuple[Evidence, list[Finding]]] = {}
         for finding in report.findings_of(pairing):
             for item in finding.evidence:

@@ -18,11 +18,13 @@ border:1px dashed #8a8a8a;vertical-align:middle}
 .mc th,.mc td{border-bottom:1px solid #d4d4d4;padding:.22rem .5rem;text-align:left;
 vertical-align:top}
 .mc thead th{border-bottom:2px solid #555}
-.mc td.num{text-align:right;white-space:nowrap;font-variant-numeric:tabular-nums}
+.mc td.num,.mc th.num{text-align:right;white-space:nowrap;font-variant-numeric:tabular-nums}
 .mc td.measure{white-space:nowrap}
 .mc .mark{white-space:nowrap}.mc .glyph{vertical-align:-2px;margin-right:.25rem}
 .mc tr.status-differs td.measure{font-weight:700}
 .mc tr:target,.mc .evidence:target,.mc .grid-box:target,.mc svg:target{outline:3px solid #1f5f99}
+.mc .wide{overflow-x:auto;max-width:100%}
+.mc ul.contrasts{font-size:.85rem;color:#333;margin:.2rem 0}
 .mc .charts{display:flex;flex-wrap:wrap;gap:.4rem 1.2rem}
 .mc figure.chart-box{margin:.2rem 0}
 .mc svg.chart{max-width:100%;height:auto;font-size:11px}
@@ -47,6 +49,7 @@ background:#f3ecd2;padding:0 2px}
 .mc .note{font-size:.85rem;color:#444}
 .mc article.study{border-top:3px double #555;margin-top:2rem}
 @media print{
+.mc .wide{overflow:visible}
 .mc{max-width:none;padding:0;font-size:10pt}.mc nav.toc{display:none}
 .mc a{color:inherit;text-decoration:none}
 .mc figure.chart-box,.mc .evidence,.mc tr,.mc .grid-box{break-inside:avoid}

@@ -84,7 +84,7 @@ class ChartRow:
     text: str  # the values in words, shown at the right
 
 
-WIDTH, LABEL_W, TEXT_W, ROW_H, TOP = 660, 200, 180, 34, 26
+WIDTH, LABEL_W, TEXT_W, ROW_H, TOP = 720, 200, 240, 34, 26
 
 
 def dot_chart(title: str, rows: Sequence[ChartRow], chart_id: str) -> str:
@@ -111,9 +111,12 @@ def dot_chart(title: str, rows: Sequence[ChartRow], chart_id: str) -> str:
         parts.append(
             f'<text x="{left - 8}" y="{y - 1:.1f}" text-anchor="end" class="row-label">'
             f"{escape(_clip(row.condition, 30))}<title>{escape(row.condition)}</title></text>"
-            f'<text x="{left - 8}" y="{y + 11:.1f}" text-anchor="end" class="row-against">'
-            f"vs {escape(_clip(row.against, 27))}<title>{escape(row.against)}</title></text>"
         )
+        if row.against:
+            parts.append(
+                f'<text x="{left - 8}" y="{y + 11:.1f}" text-anchor="end" class="row-against">'
+                f"vs {escape(_clip(row.against, 27))}<title>{escape(row.against)}</title></text>"
+            )
         parts.append(
             f'<line x1="{left}" x2="{right}" y1="{y:.1f}" y2="{y:.1f}" stroke="#d0d0d0" '
             'stroke-width="1"/>'
