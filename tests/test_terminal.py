@@ -37,8 +37,8 @@ def _render(report: Report, width: int) -> str:
 
 
 def _headers(text: str) -> list[list[str]]:
-    """The value-column headers of each table, each rebuilt from its lines: right-aligned
-    headers end in the same column on every line of the header."""
+    """The value-column headers of each contrast's table, each rebuilt from its lines:
+    right-aligned headers end in the same column on every line of the header."""
     tables = []
     lines = text.splitlines()
     for index, line in enumerate(lines):
@@ -49,6 +49,8 @@ def _headers(text: str) -> list[list[str]]:
         while back >= 0 and lines[back].strip():
             block.insert(0, lines[back])
             back -= 1
+        if not block or "Verdict" not in block[-1]:
+            continue  # another table (the study's data)
         columns: dict[int, str] = {}
         for header_line in block:
             for token in re.finditer(r"\S+(?: \S+)*", header_line):
