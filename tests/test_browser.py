@@ -14,6 +14,7 @@ from __future__ import annotations
 import io
 import json
 import os
+import shutil
 from collections import Counter
 from pathlib import Path
 from typing import Any
@@ -66,9 +67,15 @@ def browser(chromium: str, tmp_path_factory: pytest.TempPathFactory) -> Any:
 
 @pytest.fixture(scope="module")
 def demo(tmp_path_factory: pytest.TempPathFactory) -> tuple[Path, dict[str, Any]]:
-    """The demo study's HTML and JSON reports, written by one run."""
+    """The demo study's HTML and JSON reports, written by one run; the study gets a planned
+    sample so that the page has every group: design (power), the learners' data, the post-test."""
     folder = tmp_path_factory.mktemp("report")
-    status = main(["check", str(STUDY), "-f", "html", "-f", "json", "-o", str(folder / "r")])
+    study = folder / "demo"
+    shutil.copytree(STUDY.parent, study)
+    with (study / "study.toml").open("a", encoding="utf-8") as toml:
+        toml.write("\n[sample]\nper_condition = 40\nsmallest_effect = 0.5\n")
+    out = str(folder / "r")
+    status = main(["check", str(study / "study.toml"), "-f", "html", "-f", "json", "-o", out])
     assert status == 1  # the demo's study has confounds (fixtures/README.md)
     report = json.loads((folder / "r.json").read_text(encoding="utf-8"))
     return folder / "r.html", report
@@ -109,6 +116,7 @@ def test_demo_report_in_chromium(browser: Browser, demo: tuple[Path, dict[str, A
         for f in report["findings"]
     )
     assert rows == expected
+    assert {f["group"] for f in report["findings"]} >= {"design", "groups", "instrument"}
     # ... and links to where it shows (its chart, its passages, its grid or counts).
     ids = set(facts["ids"])
     assert len(ids) == len(facts["ids"]), "an id is used twice"
@@ -122,6 +130,10 @@ def test_demo_report_in_chromium(browser: Browser, demo: tuple[Path, dict[str, A
     for chart in facts["charts"]:
         assert chart["marks"] >= 1, chart["id"]
         assert chart["size"][0] > 100 and chart["size"][1] > 40, chart["id"]
+    # The study's own charts: baseline g against the WWC bands, and power per contrast.
+    titles = {chart["id"]: chart["title"] for chart in facts["charts"]}
+    assert "WWC bands" in titles["chart-baseline-pretest"]
+    assert "needed for the target power" in titles["group-design-chart"]
     # Every located passage of the findings is quoted on the page.
     text = " ".join(facts["text"].split())
     for finding in report["findings"]:

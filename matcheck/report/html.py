@@ -41,6 +41,7 @@ from matcheck.report.common import (
     summary_counts,
 )
 from matcheck.report.formatter import RenderOptions
+from matcheck.report.html_study import baseline_chart, design_section, is_baseline, is_design
 from matcheck.report.html_style import STYLE
 from matcheck.report.svg import ChartRow, dot_chart, mark
 from matcheck.report.table import ordered_with_echoes
@@ -241,7 +242,7 @@ def _contrasts(report: Report) -> tuple[Pairing, ...]:
     extra = dict.fromkeys(
         (f.reference, f.condition)
         for f in report.findings
-        if (f.reference, f.condition) not in known
+        if (f.reference, f.condition) not in known and not is_design(f)
     )
     return (*pairs, *(Pairing(reference, condition) for reference, condition in extra))
 
@@ -271,6 +272,15 @@ def _summary(report: Report, groups: list[Group], anchors: _Anchors) -> str:
             f'<tr><th scope=row><a href="#{anchors.section("group-" + group.value)}">'
             f"{escape(group.value)}</a></th>"
         )
+        design = [f for f in report.findings if f.group is group and is_design(f)]
+        if design:  # power belongs to the study, not to one contrast
+            worst = _worst(design) or Status.MATCHED
+            count = sum(1 for f in design if f.status is worst)
+            parts.append(
+                f'<td colspan="{len(contrasts)}">{mark(worst, f"{worst.value} ({count})")} '
+                "power for each contrast</td></tr>"
+            )
+            continue
         for pairing in contrasts:
             in_group = [
                 f for f in report.findings_of(pairing) if f.caused_by is None and f.group is group
@@ -334,10 +344,7 @@ def _finding_row(finding: Finding, is_echo: bool, pairing: Pairing, anchors: _An
     name = ("↳ " if is_echo else "") + finding.name
     reference, condition = pairing.reference, pairing.condition
     return (
-        f'<tr id="{anchors.finding(finding)}" class="finding status-{finding.status.value}" '
-        f'data-reference="{escape(finding.reference)}" '
-        f'data-condition="{escape(finding.condition)}" '
-        f'data-key="{escape(finding.key)}" data-status="{finding.status.value}">'
+        f"{_row_start(finding, anchors)}"
         f"<td>{mark(finding.status)}</td><td>{escape(finding.group.value)}</td>"
         f'<td class="measure">{escape(name)}</td>'
         f'<td class="num">{escape(_value(finding, reference))}</td>'
@@ -345,6 +352,16 @@ def _finding_row(finding: Finding, is_echo: bool, pairing: Pairing, anchors: _An
         f'<td class="num">{escape(format_difference(finding))}</td>'
         f'<td class="num">{escape(format_tolerance(finding))}</td>'
         f"<td>{escape(finding.reason)}</td><td>{' '.join(links)}</td></tr>"
+    )
+
+
+def _row_start(finding: Finding, anchors: _Anchors) -> str:
+    """A finding's table row opens with its anchor and what identifies it (for the tests)."""
+    return (
+        f'<tr id="{anchors.finding(finding)}" class="finding status-{finding.status.value}" '
+        f'data-reference="{escape(finding.reference)}" '
+        f'data-condition="{escape(finding.condition)}" '
+        f'data-key="{escape(finding.key)}" data-status="{finding.status.value}">'
     )
 
 
@@ -393,6 +410,9 @@ def _findings(report: Report, anchors: _Anchors) -> str:
 
 def _group_section(report: Report, group: Group, anchors: _Anchors) -> str:
     findings = [f for f in report.findings if f.group is group]
+    if findings and all(is_design(f) for f in findings):
+        section = anchors.section("group-" + group.value)
+        return design_section(report, section, lambda f: _row_start(f, anchors))
     parts = [f'<section id="{anchors.section("group-" + group.value)}">']
     parts.append(f"<h2>{escape(group.value.capitalize())}</h2>")
     dimensions = list(dict.fromkeys(f.dimension for f in findings))
@@ -445,12 +465,17 @@ def _chartable(dimension: str, findings: Sequence[Finding]) -> bool:
     if spec is not None and spec.from_zero:
         return False
     mine = [f for f in findings if f.dimension == dimension]
+    if any(is_design(f) for f in mine):
+        return False  # the design section charts power
     return all(f.item is None for f in mine) and any(
         v is not None for f in mine for v in f.values.values()
     )
 
 
 def _chart(report: Report, dimension: str, findings: list[Finding], anchors: _Anchors) -> str:
+    mine = [f for f in findings if f.dimension == dimension]
+    if mine and all(is_baseline(f) for f in mine):
+        return baseline_chart(dimension, mine, anchors.chart(dimension))
     rows = []
     unit = ""
     for pairing in _contrasts(report):

@@ -84,30 +84,57 @@ class ChartRow:
     text: str  # the values in words, shown at the right
 
 
+@dataclass(frozen=True, slots=True)
+class Zone:
+    """A range of the axis shaded behind every row, with its name above (a WWC band)."""
+
+    low: float
+    high: float
+    label: str
+    fill: str
+
+
 WIDTH, LABEL_W, TEXT_W, ROW_H, TOP = 720, 200, 240, 34, 26
 
 
-def dot_chart(title: str, rows: Sequence[ChartRow], chart_id: str) -> str:
+def dot_chart(
+    title: str, rows: Sequence[ChartRow], chart_id: str, zones: Sequence[Zone] = ()
+) -> str:
     """One measure: a row per contrast, the tolerance band shaded around the reference (a
-    hollow ring), the condition as the mark of its verdict; a shared axis below."""
+    hollow ring), the condition as the mark of its verdict; a shared axis below. ``zones``
+    shade ranges of the axis behind all rows."""
     known = [
         v for row in rows for v in (row.reference, row.value, row.low, row.high) if v is not None
     ]
+    known += [v for zone in zones for v in (zone.low, zone.high)]
     low, high = _domain(known)
     left, right = LABEL_W, WIDTH - TEXT_W
 
     def x(value: float) -> float:
         return left + (value - low) / (high - low) * (right - left)
 
-    height = TOP + ROW_H * len(rows) + 26
+    height = TOP + (14 if zones else 0) + ROW_H * len(rows) + 26
     parts = [
         f'<svg class="chart" id="{escape(chart_id)}" role="img" width="{WIDTH}" '
         f'height="{height}" viewBox="0 0 {WIDTH} {height}">',
         f"<title>{escape(title)}</title>",
         f'<text x="0" y="16" class="chart-title">{escape(title)}</text>',
     ]
+    top = TOP + (14 if zones else 0)
+    for zone in zones:
+        x0, x1 = x(zone.low), x(zone.high)
+        parts.append(
+            f'<rect class="zone" x="{x0:.1f}" y="{top:.1f}" width="{x1 - x0:.1f}" '
+            f'height="{ROW_H * len(rows):.1f}" fill="{zone.fill}" stroke="{BAND_EDGE}" '
+            'stroke-dasharray="3 2"/>'
+        )
+        if zone.label:
+            parts.append(
+                f'<text x="{(x0 + x1) / 2:.1f}" y="{top - 3:.1f}" text-anchor="middle" '
+                f'class="tick">{escape(zone.label)}</text>'
+            )
     for index, row in enumerate(rows):
-        y = TOP + ROW_H * index + ROW_H / 2
+        y = top + ROW_H * index + ROW_H / 2
         parts.append(
             f'<text x="{left - 8}" y="{y - 1:.1f}" text-anchor="end" class="row-label">'
             f"{escape(_clip(row.condition, 30))}<title>{escape(row.condition)}</title></text>"
@@ -135,7 +162,7 @@ def dot_chart(title: str, rows: Sequence[ChartRow], chart_id: str) -> str:
         parts.append(
             f'<text x="{right + 10}" y="{y + 4:.1f}" class="row-value">{escape(row.text)}</text>'
         )
-    axis_y = TOP + ROW_H * len(rows) + 4
+    axis_y = TOP + (14 if zones else 0) + ROW_H * len(rows) + 4
     parts.append(
         f'<line x1="{left}" x2="{right}" y1="{axis_y}" y2="{axis_y}" stroke="#555" '
         'stroke-width="1"/>'
