@@ -708,6 +708,20 @@ def _notes(report: Report) -> str:
                 f"<li>nothing changed beyond tolerance since {escape(report.revision)}</li>"
             )
         parts.append("</ul>")
+        changed = [f for f in report.changes if f.status is not Status.MATCHED and not f.caused_by]
+        if changed:
+            parts.append(
+                '<table><thead><tr><th>Version</th><th>Measure</th><th class="num">Then</th>'
+                '<th class="num">Now</th><th class="num">Difference</th></tr></thead><tbody>'
+            )
+            parts += [
+                f"<tr><td>{escape(f.condition)}</td><td>{escape(f.name)}</td>"
+                f'<td class="num">{escape(_value(f, f.reference))}</td>'
+                f'<td class="num">{escape(_value(f, f.condition))}</td>'
+                f'<td class="num">{escape(format_difference(f))}</td></tr>'
+                for f in changed
+            ]
+            parts.append("</tbody></table>")
     parts += [f'<p class="note">{escape(note)}</p>' for note in report.notes]
     parts.append("</footer>")
     return "".join(parts)
