@@ -261,3 +261,4 @@ def test_evidence_that_is_not_a_passage_is_one_line(kind: EvidenceKind) -> None:
     page = render_html(_report(kinds=(kind,)))
     assert 'class="evidence brief"' in page
     assert 'class="side-by-side"' not in page
+
