@@ -262,3 +262,16 @@ def test_evidence_that_is_not_a_passage_is_one_line(kind: EvidenceKind) -> None:
     assert 'class="evidence brief"' in page
     assert 'class="side-by-side"' not in page
 
+
+def test_measures_with_the_same_slug_get_different_ids() -> None:
+    a, b = "A", "B"
+    findings = tuple(
+        Finding(name, Group.GROUPS, "points", a, b, Status.MATCHED, {a: 1.0, b: 1.0}, 0.0,
+                Tolerance(absolute=1), "within tolerance")
+        for name in ("pre test", "pre-test")
+    )  # fmt: skip
+    conditions = (Condition(a, (), "text", True), Condition(b, (), "text"))
+    page = render_html(Report(conditions, a, (), findings))
+    ids = [attrs["id"] for _, attrs in _tags(page) if attrs.get("id")]
+    assert len(ids) == len(set(ids))
+    assert 'id="chart-pre-test"' in page and 'id="chart-pre-test-2"' in page

@@ -127,6 +127,7 @@ class _Anchors:
     findings: dict[int, str] = field(default_factory=dict)
     charted: set[str] = field(default_factory=set)
     counted: set[str] = field(default_factory=set)
+    named: dict[tuple[str, str], str] = field(default_factory=dict)
 
     def finding(self, finding: Finding) -> str:
         return self.findings.setdefault(id(finding), f"{self.prefix}f{len(self.findings) + 1}")
@@ -145,13 +146,26 @@ class _Anchors:
         return self.evidence.setdefault(key, f"{self.prefix}e{len(self.evidence) + 1}")
 
     def chart(self, dimension: str) -> str:
-        return f"{self.prefix}chart-{_slug(dimension)}"
+        return self._unique("chart", dimension)
 
     def counts(self, group: str) -> str:
         return f"{self.prefix}counts-{_slug(group)}"
 
     def grid(self, dimension: str) -> str:
-        return f"{self.prefix}grid-{_slug(dimension)}"
+        return self._unique("grid", dimension)
+
+    def _unique(self, kind: str, name: str) -> str:
+        """An id for ``name``, the same each time; two names with one slug (measures named in
+        the learners' data, "pre test" and "pre-test") get different ids."""
+        key = (kind, name)
+        if key not in self.named:
+            base = f"{self.prefix}{kind}-{_slug(name)}"
+            taken = set(self.named.values())
+            candidate, number = base, 2
+            while candidate in taken:
+                candidate, number = f"{base}-{number}", number + 1
+            self.named[key] = candidate
+        return self.named[key]
 
     def section(self, name: str) -> str:
         return f"{self.prefix}{_slug(name)}"
