@@ -89,10 +89,13 @@ def test_names_wrap_only_at_separators_and_lose_nothing() -> None:
     assert wrap_name("diagrams-plain", 9) == "diagrams-\nplain"
     assert wrap_name("text_bold.v2", 6) == "text_\nbold.\nv2"
     assert wrap_name("abcdefghij", 4) == "abcd\nefgh\nij"
-    layout = column_layout(80, ["words"], ["text-bold", "diagrams-plain"], [("1,059", "1,000")])
+    layout = column_layout(100, ["words"], ["text-bold", "diagrams-plain"], [("1,059", "1,000")])
     assert layout.headers == ("text-bold", "diagrams-plain")  # room enough: one line
-    narrow = column_layout(60, [" ↳ automated_readability"], ["text-bold", "diagrams-plain"], [])
+    narrow = column_layout(80, [" ↳ automated_readability"], ["text-bold", "diagrams-plain"], [])
     assert narrow.headers == ("text-\nbold", "diagrams-\nplain")
+    # Narrower still: the pieces break too, down to the numbers' width; nothing is lost.
+    tight = column_layout(70, ["words"], ["text-bold", "diagrams-plain"], [("1,059", "1,000")])
+    assert [h.replace("\n", "") for h in tight.headers] == ["text-bold", "diagrams-plain"]
 
 
 def test_folder_summary_keeps_study_paths_apart() -> None:

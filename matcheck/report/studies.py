@@ -65,8 +65,10 @@ def render_summary(
     folder, shown = shown_paths([r.path for r in results])
     title = f"Studies in {folder}" if folder else "Studies"
     table = Table(title=escape(title), title_justify="left", header_style="bold")
-    # Paths are folded onto more lines, never cut: two studies must not look alike.
-    table.add_column("Study", overflow="fold")
+    # Paths are folded onto more lines, never cut: two studies must not look alike. Up to 40
+    # characters of a path keep their line; the other columns give way first.
+    longest = max((len(path) for path in shown), default=5)
+    table.add_column("Study", overflow="fold", min_width=min(longest, 40))
     for column in ("Conditions", "Verdict", "Differ", "Inconclusive", "Accepted", "Problem"):
         table.add_column(column)
     for result, path in zip(results, shown, strict=True):

@@ -21,12 +21,14 @@ from matcheck.findings import Status
 COLOURS = {
     Status.DIFFERS: "#a4262c",
     Status.INCONCLUSIVE: "#7a5c00",
+    Status.ACCEPTED: "#6a3d7a",
     Status.INTENDED: "#1f5f99",
     Status.MATCHED: "#2e6b3a",
 }
 SHAPE_NAMES = {
     Status.DIFFERS: "filled triangle",
     Status.INCONCLUSIVE: "hollow diamond",
+    Status.ACCEPTED: "hollow square",
     Status.INTENDED: "filled square",
     Status.MATCHED: "filled circle",
 }
@@ -49,6 +51,12 @@ def shape(status: Status | None, x: float, y: float, r: float = 6.0) -> str:
     if status is Status.INCONCLUSIVE:
         points = f"{x:.1f},{y - r:.1f} {x + r:.1f},{y:.1f} {x:.1f},{y + r:.1f} {x - r:.1f},{y:.1f}"
         return f'<polygon points="{points}" fill="#fff" stroke="{colour}" stroke-width="2.2"/>'
+    if status is Status.ACCEPTED:
+        side = r * 1.5
+        return (
+            f'<rect x="{x - side / 2:.1f}" y="{y - side / 2:.1f}" width="{side:.1f}" '
+            f'height="{side:.1f}" fill="#fff" stroke="{colour}" stroke-width="2.2"/>'
+        )
     if status is Status.INTENDED:
         side = r * 1.6
         return (
