@@ -33,6 +33,7 @@ from matcheck.measures import registry
 from matcheck.measures.comparisons import ITEM_COVERAGE
 from matcheck.report.common import (
     STATUS_ORDER,
+    counts_sentence,
     describe_evidence,
     describe_regression,
     format_difference,
@@ -225,14 +226,10 @@ def _worst(findings: Iterable[Finding]) -> Status | None:
 
 
 def _verdict(report: Report) -> str:
-    counts = summary_counts(report)
     status = Status.DIFFERS if report.differs else Status.MATCHED
     words = "Possible confounds found" if report.differs else "No differences beyond tolerance"
-    return (
-        f'<p class="verdict">{mark(status, words)} — {counts["differs"]} differ, '
-        f"{counts['inconclusive']} inconclusive, {counts['intended']} intended, "
-        f"{counts['matched']} matched (root findings).</p>"
-    )
+    counts = escape(counts_sentence(report))
+    return f'<p class="verdict">{mark(status, words)} — {counts} (root findings).</p>'
 
 
 def _legend() -> str:
