@@ -134,11 +134,13 @@ def test_demo_report_in_chromium(browser: Browser, demo: tuple[Path, dict[str, A
     titles = {chart["id"]: chart["title"] for chart in facts["charts"]}
     assert "WWC bands" in titles["chart-baseline-pretest"]
     assert "needed for the target power" in titles["group-design-chart"]
-    # Every located passage of the findings is quoted on the page.
+    # Every located passage of the findings is quoted on the page (the comparison's «» around
+    # changed words become marks).
     text = " ".join(facts["text"].split())
     for finding in report["findings"]:
         for item in finding["evidence"]:
-            assert " ".join(item["text"].split()) in text
+            quoted = item["text"].replace("«", "").replace("»", "")
+            assert " ".join(quoted.split()) in text
     _assert_screenshot(visit.screenshot, 1280)
 
 

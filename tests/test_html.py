@@ -275,3 +275,12 @@ def test_measures_with_the_same_slug_get_different_ids() -> None:
     ids = [attrs["id"] for _, attrs in _tags(page) if attrs.get("id")]
     assert len(ids) == len(set(ids))
     assert 'id="chart-pre-test"' in page and 'id="chart-pre-test-2"' in page
+
+
+def test_the_comparisons_own_marks_are_shown_as_changed_words() -> None:
+    from matcheck.report.worddiff import marked_pair
+
+    left, right = marked_pair("Pump to «4» bar < max", "Pump to «5» bar < max") or ("", "")
+    assert left == 'Pump to <del class="changed" title="changed">4</del> bar &lt; max'
+    assert right == 'Pump to <ins class="changed" title="changed">5</ins> bar &lt; max'
+    assert marked_pair("no marks", "here either") is None

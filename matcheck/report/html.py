@@ -46,11 +46,16 @@ from matcheck.report.html_study import baseline_chart, design_section, is_baseli
 from matcheck.report.html_style import STYLE
 from matcheck.report.svg import ChartRow, dot_chart, mark
 from matcheck.report.table import ordered_with_echoes
-from matcheck.report.worddiff import word_diff
+from matcheck.report.worddiff import marked_pair, word_diff
 
 # Evidence whose counterpart text is not a passage of the other version (a list of missing
 # terms), so it is shown as a line, not as two passages side by side.
-NOT_PASSAGES = frozenset({EvidenceKind.ITEM_TAUGHT, EvidenceKind.ITEM_NOT_TAUGHT})
+NOT_PASSAGES = frozenset(
+    kind
+    for kind in EvidenceKind
+    if kind.value.startswith("item_")
+    or kind.value in {"heading_level_changed", "possible_reason", "ruled_out", "weak_item"}
+)
 # Evidence about a term, not a passage: one line each.
 ONE_LINE = frozenset(
     {EvidenceKind.EMPHASIS_ADDED, EvidenceKind.EMPHASIS_REMOVED, EvidenceKind.TERM_MISSING}
@@ -662,7 +667,11 @@ def _passage(
         and item.counterpart_text
         and item.kind not in NOT_PASSAGES | ONE_LINE
     ):
-        mine, theirs = word_diff(item.text, item.counterpart_text)
+        # The comparison's own marks where it made them (changed facts, rewording), else a
+        # word diff of the two excerpts for display.
+        mine, theirs = marked_pair(item.text, item.counterpart_text) or word_diff(
+            item.text, item.counterpart_text
+        )
         if here != pair[0]:
             mine, theirs = theirs, mine
         left_place, right_place = place, item.counterpart.describe()

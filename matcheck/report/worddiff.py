@@ -10,7 +10,11 @@ word underlined, a changed word boxed with a dotted line (docs/html-report.md).
 from __future__ import annotations
 
 import difflib
+import re
 from html import escape
+
+# The comparison's own marks around changed words (compare/edits.py: «…»), where it has them.
+MARKED = re.compile("«([^«»]*)»")
 
 
 def word_diff(left: str, right: str) -> tuple[str, str]:
@@ -47,3 +51,14 @@ def counts(left: str, right: str) -> dict[str, int]:
         elif op == "replace":
             result["changed"] += i2 - i1
     return result
+
+
+def marked_pair(left: str, right: str) -> tuple[str, str] | None:
+    """The HTML of two excerpts whose changed words the comparison marked with «…»: those
+    words marked as changed on both sides. None when neither excerpt carries the marks."""
+    if not (MARKED.search(left) or MARKED.search(right)):
+        return None
+    return (
+        MARKED.sub(r'<del class="changed" title="changed">\1</del>', escape(left, quote=False)),
+        MARKED.sub(r'<ins class="changed" title="changed">\1</ins>', escape(right, quote=False)),
+    )
