@@ -171,3 +171,10 @@ def test_frames_name_the_extra_without_pandas(
     monkeypatch.setitem(sys.modules, "pandas", None)  # import pandas now fails
     with pytest.raises(ImportError, match=r"matcheck\[pandas\]"):
         study.to_frame()
+
+
+def test_the_worked_example_in_the_docs_is_what_the_api_prints(study: Result) -> None:
+    docs = (ROOT / "docs" / "api.md").read_text(encoding="utf-8")
+    assert repr(study) in docs
+    roots = [f.dimension for f in study.of_status("differs") if f.caused_by is None]
+    assert repr(roots) in docs
