@@ -16,6 +16,7 @@ from matcheck.findings import Condition, Report
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 from matcheck.measures.base import Profile
 from matcheck.model import Document
+from matcheck.progress import SILENT, Steps
 from matcheck.settings import DEFAULT_COMPARISON, DEFAULT_WPM, ComparisonSettings, Settings
 from matcheck.study import Study
 
@@ -85,7 +86,11 @@ def _comparing(limits: ReadLimits) -> AbstractContextManager[None]:
 
 
 def _measure_versions(
-    versions: Sequence[Version], reference: str, settings: Settings, limits: ReadLimits
+    versions: Sequence[Version],
+    reference: str,
+    settings: Settings,
+    limits: ReadLimits,
+    steps: Steps = SILENT,
 ) -> tuple[dict[str, Profile], list[Condition]]:
     """Read and measure each version once; the conditions as the report names them."""
     profiles: dict[str, Profile] = {}
@@ -93,6 +98,7 @@ def _measure_versions(
     from matcheck.readers.deadline import deadline
 
     for version in versions:
+        steps.step(f"reading {version.name}")
         # One time budget covers reading, analysing and measuring the lesson (docs/limits.md).
         shown = ", ".join(str(path) for path in version.paths)
         with deadline(limits.max_read_seconds, shown, "reading and measuring the lesson"):
@@ -120,8 +126,10 @@ def compare_versions(
     settings: Settings | None = None,
     limits: ReadLimits = DEFAULT_LIMITS,
     comparison: ComparisonSettings = DEFAULT_COMPARISON,
+    steps: Steps = SILENT,
 ) -> Report:
-    """Compare every version with the reference (the first unless named)."""
+    """Compare every version with the reference (the first unless named); ``steps`` hears
+    of each version read and of the comparison (``len(versions) + 1`` steps)."""
     from matcheck.compare.engine import compare_profiles
     from matcheck.compare.tolerances import parse_tolerances
     from matcheck.intent import expand_manipulated
@@ -138,7 +146,8 @@ def compare_versions(
     # Validate options before the (slower) reading.
     expand_manipulated(manipulated)
     tolerances = parse_tolerances(tolerance_overrides)
-    profiles, conditions = _measure_versions(versions, reference, settings, limits)
+    profiles, conditions = _measure_versions(versions, reference, settings, limits, steps)
+    steps.step("comparing")
     with _comparing(limits):
         findings, spreads = compare_profiles(
             profiles, reference, manipulated, tolerances, comparison
@@ -169,12 +178,16 @@ def check_study(
     settings: Settings | None = None,
     limits: ReadLimits = DEFAULT_LIMITS,
     extra_tolerances: Sequence[str] = (),
+    steps: Steps = SILENT,
 ) -> Report:
-    """Compare a study's conditions as its design requires (see :func:`study.comparisons`)."""
+    """Compare a study's conditions as its design requires (see :func:`study.comparisons`);
+    ``steps`` hears of each condition read and of the comparison (one step more than the
+    conditions)."""
     settings = settings or _study_settings(study)
     profiles, conditions = _measure_versions(
-        _study_versions(study), study.reference, settings, limits
+        _study_versions(study), study.reference, settings, limits, steps
     )
+    steps.step("comparing")
     return _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
 
 

@@ -135,7 +135,9 @@ def compare(
         typer.Option("--tolerance", "-t", help="MEASURE=VALUE or MEASURE=VALUE%. Repeatable."),
     ] = None,
     wpm: Wpm = 238.0,
-    format: Annotated[str, typer.Option("--format", "-f", help=_formats(Subject.REPORT))] = "table",
+    format: Annotated[
+        list[str] | None, typer.Option("--format", "-f", help=_formats(Subject.REPORT))
+    ] = None,
     output: Output = None,
     allow_outside: AllowOutside = False,
     limit: Limits = None,
@@ -144,19 +146,23 @@ def compare(
     from matcheck.api import Version, compare_versions, version_names
     from matcheck.settings import Settings
 
-    formatter = get(Subject.REPORT, format)
+    targets = _targets(Subject.REPORT, format, "table", output)
     name_list = [n.strip() for n in names.split(",")] if names else None
     labels = version_names(files, name_list)
     versions = [Version(label, (path,)) for label, path in zip(labels, files, strict=True)]
-    report = compare_versions(
-        versions,
-        reference=reference,
-        manipulated=manipulated or (),
-        tolerance_overrides=tolerance or (),
-        settings=Settings(words_per_minute=wpm),
-        limits=_limits(allow_outside, limit),
-    )
-    deliver(formatter, report, output, files)
+    from matcheck.progress import terminal_steps
+
+    with terminal_steps(len(versions) + 1, "Comparing") as steps:
+        report = compare_versions(
+            versions,
+            reference=reference,
+            manipulated=manipulated or (),
+            tolerance_overrides=tolerance or (),
+            settings=Settings(words_per_minute=wpm),
+            limits=_limits(allow_outside, limit),
+            steps=steps,
+        )
+    deliver_all(targets, report, files)
     return exit_status([report])
 
 
@@ -178,7 +184,9 @@ def check(
         int | None,
         typer.Option("--jobs", "-j", help="Studies checked at once (default: all cores)."),
     ] = None,
-    format: Annotated[str, typer.Option("--format", "-f", help=_formats(Subject.REPORT))] = "table",
+    format: Annotated[
+        list[str] | None, typer.Option("--format", "-f", help=_formats(Subject.REPORT))
+    ] = None,
     output: Output = None,
     all_rows: Annotated[
         bool, typer.Option("--all", help="List matched measures too in the table.")
@@ -194,7 +202,7 @@ def check(
     if study.is_dir():
         from matcheck.batch import check_folder
 
-        formatter = get(Subject.STUDIES, format)
+        targets = _targets(Subject.STUDIES, format, "table", output)
         paths, results = check_folder(
             study,
             jobs=jobs,
@@ -204,10 +212,10 @@ def check(
             progress=sys.stderr.isatty(),
         )
         reports = [r.report for r in results if r.report is not None]
-        deliver(formatter, results, output, paths, options)
-        _step_summary(formatter, reports, paths)
+        deliver_all(targets, results, paths, options)
+        _step_summary([f for f, _ in targets], reports, paths)
         return exit_status(reports, failed=sum(1 for r in results if r.error))
-    formatter = get(Subject.REPORT, format)
+    targets = _targets(Subject.REPORT, format, "table", output)
     loaded = load_study(study, allow_outside=allow_outside)
     if against:
         from matcheck.api import check_against
@@ -215,11 +223,15 @@ def check(
         report = check_against(study, against, extra_tolerances=tolerance or (), limits=limits)
     else:
         from matcheck.api import check_study
+        from matcheck.progress import terminal_steps
 
-        report = check_study(loaded, extra_tolerances=tolerance or (), limits=limits)
+        with terminal_steps(len(loaded.conditions) + 1, "Checking") as steps:
+            report = check_study(
+                loaded, extra_tolerances=tolerance or (), limits=limits, steps=steps
+            )
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
-    deliver(formatter, report, output, inputs, options)
-    _step_summary(formatter, [report], inputs)
+    deliver_all(targets, report, inputs, options)
+    _step_summary([f for f, _ in targets], [report], inputs)
     return exit_status([report])
 
 
@@ -227,8 +239,8 @@ def check(
 def table(
     study: Annotated[Path, typer.Argument(help="A study file (TOML; docs/study-file.md).")],
     format: Annotated[
-        str, typer.Option("--format", "-f", help=_formats(Subject.METHODS))
-    ] = "markdown",
+        list[str] | None, typer.Option("--format", "-f", help=_formats(Subject.METHODS))
+    ] = None,
     output: Output = None,
     allow_outside: AllowOutside = False,
 ) -> int:
@@ -237,17 +249,21 @@ def table(
     from matcheck.report.methods import methods_table
     from matcheck.study import load_study
 
-    formatter = get(Subject.METHODS, format)
-    if formatter.binary and output is None:
-        raise UsageError(
-            f"--format {format} writes a binary file: give it with --output FILE"
-            f"{formatter.extension}"
-        )
+    targets = _targets(Subject.METHODS, format, "markdown", output)
+    for formatter, path in targets:
+        if formatter.binary and path is None:
+            raise UsageError(
+                f"--format {formatter.name} writes a binary file: give it with --output FILE"
+                f"{formatter.extension}"
+            )
+    from matcheck.progress import terminal_steps
+
     loaded = load_study(study, allow_outside=allow_outside)
-    report = check_study(loaded, limits=_limits(allow_outside, None))
+    with terminal_steps(len(loaded.conditions) + 1, "Checking") as steps:
+        report = check_study(loaded, limits=_limits(allow_outside, None), steps=steps)
     built = methods_table(report, coverage_threshold=loaded.coverage_threshold)
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
-    deliver(formatter, built, output, inputs)
+    deliver_all(targets, built, inputs)
     return EXIT_MATCHED
 
 
@@ -448,7 +464,30 @@ _FORMAT_SUFFIXES = {".json", ".md", ".csv", ".tex", ".docx", ".html"}
 
 
 def _formats(subject: Subject) -> str:
-    return "Output format: " + ", ".join(names(subject)) + "."
+    return (
+        "Output format: " + ", ".join(names(subject)) + ". Repeatable: several formats from one "
+        "run go to --output STEM plus each format's extension."
+    )
+
+
+def _targets(
+    subject: Subject, formats: list[str] | None, default: str, output: Path | None
+) -> list[tuple[Formatter, Path | None]]:
+    """Each format asked for, checked before any work, with the file it goes to."""
+    from matcheck.output_names import output_names
+
+    return output_names([get(subject, name) for name in formats or [default]], output)
+
+
+def deliver_all(
+    targets: Sequence[tuple[Formatter, Path | None]],
+    subject: object,
+    inputs: Sequence[Path],
+    options: RenderOptions | None = None,
+) -> None:
+    """Render ``subject`` once per format, each to its own place."""
+    for formatter, output in targets:
+        deliver(formatter, subject, output, inputs, options)
 
 
 def deliver(
@@ -483,12 +522,14 @@ def deliver(
         )
 
 
-def _step_summary(formatter: Formatter, reports: Sequence[Report], inputs: Sequence[Path]) -> None:
+def _step_summary(
+    formatters: Sequence[Formatter], reports: Sequence[Report], inputs: Sequence[Path]
+) -> None:
     """On GitHub Actions, the annotations go with a Markdown summary of each report."""
     import os
 
     summary = os.environ.get("GITHUB_STEP_SUMMARY")
-    if formatter.name != "github" or not summary or not reports:
+    if all(f.name != "github" for f in formatters) or not summary or not reports:
         return
     from matcheck.output import append_output
     from matcheck.report.markdown import render_markdown, review_digest

@@ -27,6 +27,11 @@ FORBIDDEN = {
     "study": {"readers", "compare.engine", "report", "api", "cli", "batch"},
     "api": {"report", "cli", "batch"},
     "batch": {"report", "cli"},
+    # The Python API: entry points call the orchestrator, the result renders; neither is CLI.
+    "library": {"report", "cli"},
+    "result": {"readers", "language", "compare", "api", "cli", "batch", "library"},
+    "progress": {"readers", "language", "measures", "compare", "report", "api", "cli", "batch"},
+    "output_names": {"readers", "language", "measures", "compare", "api", "cli", "batch"},
     "power": {
         "readers",
         "language",

@@ -328,3 +328,15 @@ def test_step_summary_of_a_folder_lists_every_study_s_new_problems_first(
     assert text.startswith("## New since `HEAD~1` in 2 studies")
     digest = text[: text.index("## matcheck report")]
     assert "0 new, 0 already there" in digest and "passages_removed" in digest
+
+
+def test_against_in_the_html_report(repo: Path, tmp_path: Path) -> None:
+    study = repo / "study" / "study.toml"
+    page = tmp_path / "report.html"
+    assert main(["check", str(study), "--against", "HEAD~1", "-f", "html", "-o", str(page)]) == 1
+    text = page.read_text(encoding="utf-8")
+    assert "<h2>Since HEAD~1</h2>" in text
+    assert "diagrams changed since HEAD~1" in text
+    # The change itself, in the table of what changed: the passage the revision removed.
+    changes = text[text.index("<h2>Since HEAD~1</h2>") :]
+    assert "<td>diagrams</td><td>passages_removed</td>" in changes

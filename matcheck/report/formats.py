@@ -16,11 +16,13 @@ BUILTIN = (
     Formatter("json", R, f"{_M}.json_report:render_json", "JSON", extension=".json"),
     Formatter("markdown", R, f"{_M}.markdown:render_markdown", "Markdown", extension=".md"),
     Formatter("github", R, f"{_M}.github:render_github", "GitHub workflow annotations"),
+    Formatter("html", R, f"{_M}.html:render_html", "one offline HTML page", extension=".html"),
     # check DIR: every study below a folder
     Formatter("table", S, f"{_M}.studies:render_summary", "one row per study", console=True),
     Formatter("json", S, f"{_M}.studies:render_json", "JSON", extension=".json"),
     Formatter("markdown", S, f"{_M}.studies:render_markdown", "Markdown", extension=".md"),
     Formatter("github", S, f"{_M}.studies:render_github", "GitHub workflow annotations"),
+    Formatter("html", S, f"{_M}.html:render_studies_html", "one HTML page", extension=".html"),
     # profile: the measures of each file
     Formatter("table", P, f"{_M}.profile:render_profiles_table", "terminal table", console=True),
     Formatter("json", P, f"{_M}.profile:render_profiles_json", "JSON", extension=".json"),

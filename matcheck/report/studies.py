@@ -59,16 +59,22 @@ def render_summary(
 ) -> None:
     from rich.table import Table
 
+    from matcheck.report.columns import shown_paths
     from matcheck.report.escape import rich as escape
 
-    table = Table(title="Studies", title_justify="left", header_style="bold")
-    columns = ("Study", "Conditions", "Verdict", "Differ", "Inconclusive", "Accepted", "Problem")
-    for column in columns:
+    folder, shown = shown_paths([r.path for r in results])
+    title = f"Studies in {folder}" if folder else "Studies"
+    table = Table(title=escape(title), title_justify="left", header_style="bold")
+    # Paths are folded onto more lines, never cut: two studies must not look alike. Up to 40
+    # characters of a path keep their line; the other columns give way first.
+    longest = max((len(path) for path in shown), default=5)
+    table.add_column("Study", overflow="fold", min_width=min(longest, 40))
+    for column in ("Conditions", "Verdict", "Differ", "Inconclusive", "Accepted", "Problem"):
         table.add_column(column)
-    for result in results:
+    for result, path in zip(results, shown, strict=True):
         if result.report is None:
             table.add_row(
-                escape(result.path),
+                escape(path),
                 "—",
                 "error",
                 "—",
@@ -80,7 +86,7 @@ def render_summary(
             continue
         report = result.report
         table.add_row(
-            escape(result.path),
+            escape(path),
             str(len(report.conditions)),
             "differs" if report.differs else "matched",
             str(len(report.root_findings(Status.DIFFERS))),

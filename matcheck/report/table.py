@@ -6,6 +6,9 @@ from typing import TYPE_CHECKING
 
 from matcheck.findings import Finding, Pairing, Report, Status
 from matcheck.identity import finding_id
+from matcheck.measures import registry
+from matcheck.measures.base import Role
+from matcheck.report.columns import column_layout
 from matcheck.report.common import (
     counts_sentence,
     describe_acceptance,
@@ -32,8 +35,6 @@ STYLES = {
     Status.MATCHED: "green",
 }
 MAX_EVIDENCE_LINES = 8
-# Every column but the measure's, with padding and the table's edges (see render_table).
-_FIXED_WIDTH = 12 + 10 + 10 + 8 + 10 + 10 + 7 + 2
 
 
 def ordered_with_echoes(findings: list[Finding]) -> list[tuple[Finding, bool]]:
@@ -61,8 +62,45 @@ def _pair_title(pairing: Pairing) -> str:
     return title
 
 
-def _short(name: str, width: int = 10) -> str:
-    return name if len(name) <= width else name[: width - 1] + "…"
+def _is_count(finding: Finding) -> bool:
+    """A count found between the two versions (passages removed...), not a measure of each."""
+    spec = registry.spec(finding.dimension)
+    return (
+        spec is not None
+        and spec.role is Role.PAIRWISE
+        and finding.unit != "share"
+        and finding.item is None
+    )
+
+
+def _cells(finding: Finding) -> tuple[str, str]:
+    """The two value cells of a row. A count found between the versions reads as what it
+    counts: none in the reference (by definition), the count in the other version."""
+    if _is_count(finding):
+        count = format_value(finding.difference, finding.unit, finding.dimension)
+        return "0", count
+    unit, dimension = finding.unit, finding.dimension
+    return (
+        format_value(finding.values.get(finding.reference), unit, dimension),
+        format_value(finding.values.get(finding.condition), unit, dimension),
+    )
+
+
+def _count_note(findings: list[Finding], pairing: Pairing) -> str:
+    """What the count rows count, in words, with the passages each version has."""
+    parts = []
+    for finding in findings:
+        count = int(finding.difference or 0)
+        what = finding.dimension.replace("_", " ")
+        parts.append(f"{what}: 0 in {pairing.reference}, {count} in {pairing.condition}")
+    first = next((f for f in findings if f.unit == "passages"), findings[0])
+    sizes = ", ".join(
+        f"{format_value(first.values.get(n), '', first.dimension)} in {n}"
+        for n in (pairing.reference, pairing.condition)
+        if first.values.get(n) is not None
+    )
+    total = f" (passages in all: {sizes})" if sizes and first.unit == "passages" else ""
+    return "Counted between the two versions — " + "; ".join(parts) + total + "."
 
 
 def render_table(report: Report, console: Console, options: RenderOptions | None = None) -> None:
@@ -73,6 +111,17 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
     for pairing in report.pairs():
         name, reference = pairing.condition, pairing.reference
         findings = list(report.findings_of(pairing))
+        rows = [
+            (finding, is_echo, *_cells(finding))
+            for finding, is_echo in ordered_with_echoes(findings)
+            if show_matched or finding.status is not Status.MATCHED
+        ]
+        layout = column_layout(
+            console.width,
+            [f" ↳ {f.name}" if echo else f.name for f, echo, *_ in rows],
+            (reference, name),
+            [(ref, value) for _, _, ref, value in rows],
+        )
         table = Table(
             title=_pair_title(pairing),
             title_justify="left",
@@ -81,29 +130,31 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
             padding=(0, 1, 0, 0),
         )
         table.add_column("Verdict", no_wrap=True, width=12)
-        # Numbers and ids keep their width on a narrow terminal; measure names shrink.
-        measure_width = max(12, console.width - _FIXED_WIDTH)
-        table.add_column("Measure", no_wrap=True, overflow="ellipsis", max_width=measure_width)
-        table.add_column(esc(_short(reference)), justify="right", no_wrap=True, max_width=10)
-        table.add_column(esc(_short(name)), justify="right", no_wrap=True, max_width=10)
+        # Numbers and ids keep their width on a narrow terminal; measure names shrink, and
+        # version names are shown whole, broken onto more header lines (report/columns.py).
+        table.add_column("Measure", no_wrap=True, overflow="ellipsis", width=layout.measure)
+        for header, width in zip(layout.headers, layout.names, strict=True):
+            table.add_column(esc(header), justify="right", no_wrap=True, width=width)
         table.add_column("Diff.", justify="right", no_wrap=True, width=8)
         table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
         table.add_column("Id", no_wrap=True, min_width=10, max_width=10)
-        for finding, is_echo in ordered_with_echoes(findings):
-            if not show_matched and finding.status is Status.MATCHED:
-                continue
+        for finding, is_echo, ref_cell, value_cell in rows:
             label = f" ↳ {finding.name}" if is_echo else finding.name
             table.add_row(
                 finding.status.value,
                 label,
-                format_value(finding.values.get(reference), finding.unit, finding.dimension),
-                format_value(finding.values.get(name), finding.unit, finding.dimension),
+                ref_cell,
+                value_cell,
                 format_difference(finding, short=True),
                 format_tolerance(finding, short=True),
                 finding_id(finding),
                 style=STYLES[finding.status] if finding.status is not Status.MATCHED else None,
             )
         console.print(table)
+        counted = [f for f, *_ in rows if _is_count(f)]
+        if counted:
+            note = terminal(_count_note(counted, pairing))
+            console.print(note, highlight=False, markup=False)
         if not show_matched:
             hidden = sum(1 for f in findings if f.status is Status.MATCHED)
             console.print(f"[dim]{hidden} matched measures not listed (--all lists them)[/dim]")
