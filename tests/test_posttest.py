@@ -493,3 +493,23 @@ def test_a_small_drop_of_coverage_is_within_tolerance() -> None:
     a, b = finding.values["a"], finding.values["b"]
     assert a is not None and b is not None and 0 < a - b <= 0.15
     assert finding.status is Status.MATCHED
+
+
+def test_taught_evidence_quotes_the_teaching_sentences_not_the_paragraphs_start() -> None:
+    # Issue 20: the bloom is taught by the 3rd and 4th sentences of a long paragraph; the
+    # evidence must quote those (what a reader checks), not its first words. Known by
+    # construction: the opening sentences share no term with the item.
+    long = (
+        "Coffee has a long history in many countries. Traders once carried sacks of it across "
+        "the sea for months. " + BLOOM + " Many people drink it with milk in the morning."
+    )
+    analyses = {
+        "long": _lesson("long", [OPENING, long, GRINDER, KETTLE]),
+        "cut": _lesson("cut", [OPENING, GRINDER, KETTLE]),
+    }
+    findings, _ = assess_posttest([BLOOM_ITEM], analyses, [("long", "cut")])
+    taught = _by_item(findings)["Q1"].evidence[0]
+    assert taught.kind == "item_taught" and taught.condition == "long"
+    assert not taught.text.startswith("Coffee has a long history")
+    assert "release gas" in taught.text and "Traders" not in taught.text
+    assert taught.location is not None and taught.location.paragraph == 2

@@ -24,6 +24,11 @@ _LATEX = str.maketrans(
         "≥": r"$\geq$",
         "≤": r"$\leq$",
         "²": r"\textsuperscript{2}",
+        "†": r"\textsuperscript{\dag}",
+        "‡": r"\textsuperscript{\ddag}",
+        "°": r"\textsuperscript{\textdegree}",
+        "*": r"\textsuperscript{*}",
+        "α": r"$\alpha$",
     }
 )
 
@@ -42,7 +47,7 @@ def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> s
     Needs ``\\usepackage{booktabs}`` in the preamble.
     """
     width = len(table.header)
-    spec = "@{}l" + "r" * (len(table.columns) + 1) + "l@{}"
+    spec = "@{}l" + "r" * (width - 2) + "l@{}"
     lines = [
         r"\begin{table}[htbp]",
         r"\centering",
@@ -60,7 +65,7 @@ def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> s
         label = escape_latex(rows[0].group_label)
         lines.append(rf"\multicolumn{{{width}}}{{@{{}}l}}{{\textit{{{label}}}}} \\")
         for row in rows:
-            cells = (row.label, *row.values, row.difference, row.verdict)
+            cells = row.cells
             lines.append(" & ".join(escape_latex(cell) for cell in cells) + r" \\")
     lines += [
         r"\bottomrule",
