@@ -339,3 +339,24 @@ def test_a_wide_word_table_is_on_a_landscape_page() -> None:
     assert section.orientation == WD_ORIENT.LANDSCAPE
     assert section.page_width is not None and section.page_height is not None
     assert section.page_width > section.page_height
+
+
+def test_a_content_row_that_differs_is_located_in_the_note() -> None:
+    # A passage removed has a row (passages without counterpart); the note still says where.
+    removed = _finding(
+        "passages_removed",
+        Group.CONTENT,
+        "passages",
+        PAIRS[1],
+        Status.DIFFERS,
+        (0, 1),
+        Tolerance(),
+        evidence=(Evidence(EvidenceKind.PASSAGE_REMOVED, "plain", "Open the bleed screw.", CUT),),
+    )
+    table = methods_table(_report(removed))
+    row = next(r for r in table.rows if r.measure == "passages_without_counterpart")
+    assert row.contrasts == ("—", "1*")
+    assert (
+        "Where the content differs: Passages removed (trimmed vs plain 1, in plain at "
+        "§ Bleeding the Radiator, paragraph 4)."
+    ) in table.note

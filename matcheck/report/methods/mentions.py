@@ -109,18 +109,25 @@ def mentions(
             status == Status.INCONCLUSIVE.value and finding.group in _MATERIALS
         ):
             continue
-        if in_table and status == Status.DIFFERS.value and not finding.item:
-            continue  # its row marks it; an item is named, as the row only counts items
+        where = _where(finding)
+        if (
+            in_table
+            and status == Status.DIFFERS.value
+            and not finding.item
+            and not (finding.group is Group.CONTENT and where)
+        ):
+            continue  # its row marks it; an item or a located content change is also named
         found.append(
             Mention(
                 VERDICTS[status],
                 label_of(finding),
                 _contrast(finding, contrasts),
                 _difference(finding),
-                _where(finding),
+                where,
                 reason_of(finding) if status != Status.DIFFERS.value or finding.item else "",
                 _label(finding.caused_by) if finding.caused_by else "",
                 in_table,
+                bool(finding.item),
             )
         )
     return tuple(found)

@@ -153,6 +153,7 @@ class Mention:
     reason: str = ""
     follows: str = ""
     in_table: bool = False
+    item: bool = False  # a post-test item (the row counts items; the note names them)
 
 
 @dataclass(frozen=True, slots=True)

@@ -131,8 +131,10 @@ def mention_sentences(mentioned: Sequence[Mention]) -> list[str]:
     beyond = [m for m in mentioned if m.verdict == VERDICTS["differs"] and not m.in_table]
     if beyond:
         sentences.append(f"Also beyond tolerance, with no row in this table: {_grouped(beyond)}.")
-    items = [m for m in mentioned if m.verdict == VERDICTS["differs"] and m.in_table]
-    if items:
+    rows = [m for m in mentioned if m.verdict == VERDICTS["differs"] and m.in_table]
+    if located := [m for m in rows if not m.item]:
+        sentences.append(f"Where the content differs: {_grouped(located)}.")
+    if items := [m for m in rows if m.item]:
         sentences.append(f"Post-test items taught differently: {_grouped(items)}.")
     unsure = [m for m in mentioned if m.verdict == VERDICTS["inconclusive"]]
     if unsure:
