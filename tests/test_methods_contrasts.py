@@ -125,6 +125,8 @@ def test_each_contrast_has_a_column_and_the_manipulation_is_not_a_difference() -
     note = table.note
     assert "figured vs plain (figures; manipulates figures)" in note
     assert "trimmed vs plain (no manipulation declared)" in note
+    # "trimmed vs plain" is trimmed minus plain: 450 − 500 words is negative, as the cell says.
+    assert "Each contrast column gives the first version named minus the second" in note
     assert "† the design manipulates the measure in this contrast (not a difference)" in note
 
 

@@ -44,8 +44,8 @@ def table_notes(
     if contrasts:
         notes.append(
             f"Contrasts: {'; '.join(c.describe() for c in contrasts)}. Each contrast column "
-            "gives the second version minus the first, in percent of the first for measures "
-            "with a relative tolerance"
+            "gives the first version named minus the second (its reference), in percent of the "
+            "reference for measures with a relative tolerance"
             + ("; differences of shares are in percentage points." if _has_shares(shown) else ".")
         )
     used = {s for row in rows for s in row.statuses}
