@@ -1,4 +1,5 @@
-"""Build the equivalence table from a report: one row per measure, one column per condition."""
+"""Build the equivalence table from a report: a row per measure, a column per condition and
+per contrast."""
 
 from __future__ import annotations
 
