@@ -513,3 +513,30 @@ def test_taught_evidence_quotes_the_teaching_sentences_not_the_paragraphs_start(
     assert not taught.text.startswith("Coffee has a long history")
     assert "release gas" in taught.text and "Traders" not in taught.text
     assert taught.location is not None and taught.location.paragraph == 2
+
+
+def _sections(name: str, sections: Sequence[tuple[str, Sequence[str]]]) -> Analysis:
+    builder = DocumentBuilder(f"{name}.md", "markdown")
+    for heading, paragraphs in sections:
+        builder.add_block(BlockKind.HEADING, heading, level=2)
+        for text in paragraphs:
+            builder.add_block(BlockKind.PARAGRAPH, text)
+    return analyze(builder.build())
+
+
+def test_not_taught_points_at_the_gap_not_at_an_early_passage() -> None:
+    # Issue 20: the "not taught" side pointed at the introduction. By construction the early
+    # "Buying Beans" paragraph shares two of the item's words (grounds, water) and is the
+    # cut version's best window overall; the bloom paragraph stood in "Brewing", which the
+    # cut version still has. The evidence must point into "Brewing", where the gap is.
+    beans = "Keep the grounds dry and away from water until you brew."
+    heat = "Heat the kettle until it is just below boiling."
+    analyses = {
+        "full": _sections("full", [("Buying Beans", [beans]), ("Brewing", [heat, BLOOM])]),
+        "cut": _sections("cut", [("Buying Beans", [beans]), ("Brewing", [heat, KETTLE])]),
+    }
+    findings, _ = assess_posttest([BLOOM_ITEM], analyses, [("full", "cut")])
+    taught, not_taught = _by_item(findings)["Q1"].evidence
+    assert taught.location is not None and taught.location.section == "Brewing"
+    assert not_taught.location is not None and not_taught.location.section == "Brewing"
+    assert taught.counterpart == not_taught.location
