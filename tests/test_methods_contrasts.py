@@ -362,3 +362,17 @@ def test_a_content_row_that_differs_is_located_in_the_note() -> None:
         "Where the content differs: Passages removed (trimmed vs plain 1, in plain at "
         "§ Bleeding the Radiator, paragraph 4)."
     ) in table.note
+
+
+def test_a_wide_latex_table_is_set_smaller_inside_its_float() -> None:
+    narrow = methods_table(_report())  # 7 columns
+    assert "\\small\n" not in render_latex(narrow)  # not \\smallskip
+    wide = dataclasses.replace(narrow, columns=(*narrow.columns, "x", "y"))
+    wide = dataclasses.replace(
+        wide, rows=tuple(dataclasses.replace(r, values=(*r.values, "—", "—")) for r in wide.rows)
+    )
+    latex = render_latex(wide)
+    # Inside the table float (a group in LaTeX), so the setting ends with \end{table}.
+    head = latex.split(r"\begin{tabular}")[0]
+    assert head.index(r"\begin{table}") < head.index(r"\small")
+    assert r"\setlength{\tabcolsep}{3pt}" in head

@@ -33,6 +33,11 @@ _LATEX = str.maketrans(
 )
 
 
+# Past this many columns a table no longer fits the text width at normal size and spacing
+# (about 2 cm a column; a judgment call, common practice).
+_NORMAL_COLUMNS = 8
+
+
 def escape_latex(text: str) -> str:
     # Control characters first become visible escapes (report/escape.py), whose backslash
     # the table then escapes: LaTeX cannot typeset them and a terminal must not receive them.
@@ -51,6 +56,10 @@ def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> s
     lines = [
         r"\begin{table}[htbp]",
         r"\centering",
+        # A column per condition and per contrast: a wide table is set smaller and tighter
+        # (inside the float, so the rest of the document is untouched); the Word output
+        # turns the page instead (word._PORTRAIT_COLUMNS).
+        *((r"\small", r"\setlength{\tabcolsep}{3pt}") if width > _NORMAL_COLUMNS else ()),
         f"% Table {table.number} of the matcheck report; LaTeX numbers floats in document order.",
         rf"\caption{{{escape_latex(table.title)}}}",
         rf"\label{{tab:equivalence-{table.number}}}",
