@@ -123,14 +123,14 @@ def _grouped(mentions: Sequence[Mention]) -> str:
     return "; ".join(f"{label} ({'; '.join(parts)})" for label, parts in by_label.items())
 
 
-def mention_sentences(mentioned: Sequence[Mention]) -> list[str]:
+def mention_sentences(mentioned: Sequence[Mention], table: str = "this table") -> list[str]:
     """The sentences about differences without a row, post-test items taught differently and
     inconclusive comparisons (the note and the methods paragraph both use them); accepted
     differences are listed apart, with their entry (``MethodsTable.accepted``)."""
     sentences = []
     beyond = [m for m in mentioned if m.verdict == VERDICTS["differs"] and not m.in_table]
     if beyond:
-        sentences.append(f"Also beyond tolerance, with no row in this table: {_grouped(beyond)}.")
+        sentences.append(f"Also beyond tolerance, with no row in {table}: {_grouped(beyond)}.")
     rows = [m for m in mentioned if m.verdict == VERDICTS["differs"] and m.in_table]
     if located := [m for m in rows if not m.item]:
         sentences.append(f"Where the content differs: {_grouped(located)}.")

@@ -82,7 +82,7 @@ def render_text(table: MethodsTable, options: RenderOptions | None = None) -> st
     if not clauses:
         return f"{versions} were not compared on any measure the table shows.\n"
     sentences = [f"{versions} {'; '.join(clauses)}."]
-    sentences += mention_sentences(table.mentions)
+    sentences += mention_sentences(table.mentions, f"Table {table.number}")
     if table.equivalence:
         sentences.append(f"Equivalence tests: {'; '.join(table.equivalence)}.")
     if any(row.measure == "reading_time" for row in table.rows):
