@@ -78,6 +78,9 @@ class Location:
     # For a lesson read from several files: the 0-based index of the file (page and line
     # belong to that file). None for a one-file lesson.
     part: int | None = None
+    # For a block other than a paragraph, or a figure: how many body paragraphs precede it,
+    # so that a place in a DOCX (no page, no line) can still be found by counting.
+    after_paragraph: int | None = None
 
     def describe(self) -> str:
         """A short human-readable place, e.g. ``'§ Cables, paragraph 4, page 2'``."""
@@ -86,6 +89,13 @@ class Location:
             parts.append(f"§ {self.section}")
         if self.paragraph is not None:
             parts.append(f"paragraph {self.paragraph}")
+        elif self.after_paragraph is not None and self.line is None:
+            # A line number says it already; without one, count paragraphs.
+            parts.append(
+                f"after paragraph {self.after_paragraph}"
+                if self.after_paragraph
+                else "before paragraph 1"
+            )
         if self.page is not None:
             parts.append(f"page {self.page}")
         if self.line is not None:

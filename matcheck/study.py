@@ -17,6 +17,7 @@ from matcheck.data.spec import DataSpec, parse_data
 from matcheck.errors import ConfigError
 from matcheck.findings import Accepted
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
+from matcheck.valuetypes import got
 
 if TYPE_CHECKING:
     from matcheck.power.study_plan import SamplePlan
@@ -107,7 +108,8 @@ def _strings(path: Path, value: Any, where: str) -> tuple[str, ...]:
         return (value,)
     if not isinstance(value, list) or not all(isinstance(v, str) for v in value) or not value:
         raise ConfigError(
-            f"{where} must be a string or a non-empty list of strings", path=str(path)
+            f"{where} must be a string or a non-empty list of strings, {got(value)}",
+            path=str(path),
         )
     return tuple(value)
 
@@ -145,20 +147,20 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
     _check_keys(path, data, TOP_KEYS, "top level")
     study = data.get("study", {})
     if not isinstance(study, dict):
-        raise ConfigError("[study] must be a table", path=shown)
+        raise ConfigError(f"[study] must be a table, {got(study)}", path=shown)
     _check_keys(path, study, STUDY_KEYS, "[study]")
     title = study.get("title", path.stem)
     if not isinstance(title, str):
-        raise ConfigError("study.title must be a string", path=shown)
+        raise ConfigError(f"study.title must be a string, {got(title)}", path=shown)
 
     factors = []
     raw_factors = data.get("factors", {})
     if not isinstance(raw_factors, dict):
-        raise ConfigError("[factors] must be a table of factors", path=shown)
+        raise ConfigError(f"[factors] must be a table of factors, {got(raw_factors)}", path=shown)
     for name, spec in raw_factors.items():
         where = f"factors.{name}"
         if not isinstance(spec, dict):
-            raise ConfigError(f"{where} must be a table", path=shown)
+            raise ConfigError(f"{where} must be a table, {got(spec)}", path=shown)
         _check_keys(path, spec, FACTOR_KEYS, where)
         if "levels" not in spec:
             raise ConfigError(f"{where}.levels is missing", path=shown)
@@ -187,7 +189,7 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
     conditions = []
     for index, spec in enumerate(raw_conditions, 1):
         if not isinstance(spec, dict):
-            raise ConfigError(f"conditions #{index} must be a table", path=shown)
+            raise ConfigError(f"conditions #{index} must be a table, {got(spec)}", path=shown)
         name = spec.get("name")
         where = f"conditions.{name}" if isinstance(name, str) else f"conditions #{index}"
         _check_keys(path, spec, CONDITION_KEYS, where)
@@ -201,7 +203,10 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
         )
         levels = spec.get("levels", {})
         if not isinstance(levels, dict) or not all(isinstance(v, str) for v in levels.values()):
-            raise ConfigError(f"{where}.levels must be a table of factor = level", path=shown)
+            raise ConfigError(
+                f"{where}.levels must be a table of factor = level (strings), {got(levels)}",
+                path=shown,
+            )
         for factor in factors:
             if factor.name not in levels:
                 raise ConfigError(
@@ -259,9 +264,7 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
     rate = study.get("reading_rate")
     if rate is not None and (isinstance(rate, bool) or not isinstance(rate, int | float)):
         raise ConfigError(
-            f"study.reading_rate must be a number (words per minute), not "
-            f"{type(rate).__name__} {rate!r}; write it without quotes",
-            path=shown,
+            f"study.reading_rate must be a number (words per minute), {got(rate)}", path=shown
         )
     if rate is not None and not 20 <= rate <= 2000:
         raise ConfigError(
@@ -270,12 +273,15 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
 
     raw_tolerances = data.get("tolerances", {})
     if not isinstance(raw_tolerances, dict):
-        raise ConfigError("[tolerances] must be a table of measure = value", path=shown)
+        raise ConfigError(
+            f"[tolerances] must be a table of measure = value, {got(raw_tolerances)}", path=shown
+        )
     overrides = []
     for key, value in raw_tolerances.items():
         if isinstance(value, bool) or not isinstance(value, int | float | str):
             raise ConfigError(
-                f'tolerances.{key} must be a number or a percentage string like "3%"', path=shown
+                f'tolerances.{key} must be a number or a percentage string like "3%", {got(value)}',
+                path=shown,
             )
         overrides.append(f"{key}={value}")
     try:
@@ -287,7 +293,7 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
 
     posttest = data.get("posttest", {})
     if not isinstance(posttest, dict):
-        raise ConfigError("[posttest] must be a table", path=shown)
+        raise ConfigError(f"[posttest] must be a table, {got(posttest)}", path=shown)
     _check_keys(path, posttest, POSTTEST_KEYS, "[posttest]")
     post_files = (
         tuple(
@@ -298,8 +304,19 @@ def load_study(path: Path, *, with_data: bool = True, allow_outside: bool = Fals
         else ()
     )
     threshold = posttest.get("coverage_threshold")
-    if threshold is not None and (not isinstance(threshold, int | float) or not 0 < threshold <= 1):
-        raise ConfigError("posttest.coverage_threshold must be a share between 0 and 1", path=shown)
+    if threshold is not None and (
+        isinstance(threshold, bool) or not isinstance(threshold, int | float)
+    ):
+        raise ConfigError(
+            f"posttest.coverage_threshold must be a number (a share between 0 and 1), "
+            f"{got(threshold)}",
+            path=shown,
+        )
+    if threshold is not None and not 0 < threshold <= 1:
+        raise ConfigError(
+            f"posttest.coverage_threshold must be a share between 0 and 1, not {threshold!r}",
+            path=shown,
+        )
 
     comparison = _comparison(path, data.get("comparison", {}), threshold)
     learners = (
@@ -352,7 +369,9 @@ def _comparison(path: Path, table: object, coverage: float | None) -> Comparison
 
     shown = str(path)
     if not isinstance(table, dict):
-        raise ConfigError("[comparison] must be a table of setting = value", path=shown)
+        raise ConfigError(
+            f"[comparison] must be a table of setting = value, {got(table)}", path=shown
+        )
     types = {f.name: f.type for f in fields(ComparisonSettings)}
     _check_keys(path, table, set(types), "[comparison]")
     values: dict[str, Any] = {}
@@ -364,10 +383,7 @@ def _comparison(path: Path, table: object, coverage: float | None) -> Comparison
             or (whole and not isinstance(value, int))
         ):
             kind = "a whole number" if whole else "a number"
-            raise ConfigError(
-                f"comparison.{key} must be {kind}, not {type(value).__name__} {value!r}",
-                path=shown,
-            )
+            raise ConfigError(f"comparison.{key} must be {kind}, {got(value)}", path=shown)
         values[key] = value
     if coverage is not None:
         values.setdefault("coverage_threshold", float(coverage))

@@ -15,6 +15,7 @@ from typing import Any
 
 from matcheck.errors import ConfigError
 from matcheck.findings import Accepted
+from matcheck.valuetypes import got
 
 ACCEPTED_KEYS = {
     "reference",
@@ -48,13 +49,14 @@ def parse_accepted(
         return ()
     if not isinstance(raw, list):
         raise ConfigError(
-            "accepted must be an array of tables, each written [[accepted]]", path=shown
+            f"accepted must be an array of tables, each written [[accepted]], {got(raw)}",
+            path=shown,
         )
     entries = []
     for number, table in enumerate(raw, 1):
         where = f"accepted #{number}"
         if not isinstance(table, dict):
-            raise ConfigError(f"{where} must be a table ([[accepted]])", path=shown)
+            raise ConfigError(f"{where} must be a table ([[accepted]]), {got(table)}", path=shown)
         entries.append(_entry(shown, where, number, table, pairs, factors, measures))
     return tuple(entries)
 
@@ -64,7 +66,7 @@ def _text(shown: str, table: Mapping[str, Any], key: str, where: str) -> str | N
     if value is None:
         return None
     if not isinstance(value, str) or not value.strip():
-        raise ConfigError(f"{where}.{key} must be a non-empty string", path=shown)
+        raise ConfigError(f"{where}.{key} must be a non-empty string, {got(value)}", path=shown)
     return value.strip()
 
 
@@ -174,14 +176,14 @@ def _extent(shown: str, where: str, value: object) -> tuple[float, bool]:
     if value is None:
         raise ConfigError(f"{where}.up_to is missing: {problem.split(': ', 1)[1]}", path=shown)
     if isinstance(value, bool):
-        raise ConfigError(problem, path=shown)
+        raise ConfigError(f"{problem}, {got(value)}", path=shown)
     if isinstance(value, int | float):
         number, relative = float(value), False
     elif isinstance(value, str) and (match := _PERCENT.fullmatch(value)):
         text = match.group(1).replace("−", "-").replace(" ", "")
         number, relative = float(text) / 100, True
     else:
-        raise ConfigError(problem, path=shown)
+        raise ConfigError(f"{problem}, {got(value)}", path=shown)
     if number == 0 or number != number or abs(number) == float("inf"):
         raise ConfigError(f"{where}.up_to must not be 0: {problem.split(': ', 1)[1]}", path=shown)
     return number, relative
@@ -199,4 +201,4 @@ def _date(shown: str, where: str, value: object) -> str:
             return datetime.date.fromisoformat(value.strip()).isoformat()
         except ValueError:
             pass
-    raise ConfigError(f"{where}.date must be a date, e.g. 2026-03-14", path=shown)
+    raise ConfigError(f"{where}.date must be a date, e.g. 2026-03-14, {got(value)}", path=shown)

@@ -63,6 +63,8 @@ LABELS = {
     "tables": "Tables",
     "emphasized_words": "Emphasized words",
 }
+# Every version against the reference (compare's default pairing), one column each.
+CONTRASTS = ["diagrams vs text_only", "diagrams_confounded vs text_only"]
 GROUPS = ["Length", "Readability", "Content", "Figures", "Structure", "Signaling"]
 
 
@@ -171,8 +173,10 @@ def test_rows_are_grouped_in_report_order(table: MethodsTable) -> None:
 def test_verdicts_and_largest_differences(report: Report, table: MethodsTable) -> None:
     rows = {row.measure: row for row in table.rows}
     # The declared manipulation and what follows from it.
-    assert rows["figures"].verdict == "intended"
-    assert rows["captions"].verdict == "intended"
+    # Manipulated in every contrast: never counted as a difference, each cell marked.
+    assert rows["figures"].verdict == "manipulated"
+    assert rows["captions"].verdict == "manipulated"
+    assert rows["figures"].difference == "—"  # no unmanipulated contrast to take it from
     # fixtures/README.md: the planted confounds (shorter sentences, a removed paragraph).
     assert rows["words_per_sentence"].verdict == "no"
     assert rows["passages_without_counterpart"].verdict == "no"
@@ -180,7 +184,7 @@ def test_verdicts_and_largest_differences(report: Report, table: MethodsTable) -
     for measure in ("headings", "list_items", "tables"):
         assert rows[measure].verdict == "yes"
         assert rows[measure].difference == "0"
-    assert rows["figures"].difference == "+3"  # 0 -> 3 figures by construction
+    assert rows["figures"].contrasts == ("+3†", "+3†")  # 0 -> 3 figures by construction
     # Words are judged relatively: 1,000 against 1,059 is −5.6%.
     assert rows["words"].difference == f"−{(1059 - 1000) / 1059 * 100:.1f}%"
     wps = [value_of(report, "words_per_sentence", n) for n in ("text_only", "diagrams_confounded")]
@@ -269,9 +273,9 @@ def test_docx_is_an_apa_table(tmp_path: Path, report: Report, table: MethodsTabl
     assert second.text == table.title and all(run.italic for run in second.runs)
     assert len(document.tables) == 1
     grid = document.tables[0]
-    width = len(NAMES) + 3
+    width = len(NAMES) + len(CONTRASTS) + 2
     header = [cell.text for cell in grid.rows[0].cells]
-    assert header == ["Measure", *NAMES, "Largest difference", "Within tolerance"]
+    assert header == ["Measure", *NAMES, *CONTRASTS, "Within tolerance"]
     cells = [[cell.text for cell in row.cells] for row in grid.rows[1:]]
     # Group spanners: one merged cell across the whole width, in italics.
     spanners = [row for row in cells if len(set(row)) == 1]
@@ -281,7 +285,7 @@ def test_docx_is_an_apa_table(tmp_path: Path, report: Report, table: MethodsTabl
     for expected in expected_rows(report):
         assert body[expected[0]][: len(expected)] == expected
     for row in table.rows:
-        assert body[row.label][-2:] == [row.difference, row.verdict]
+        assert body[row.label] == list(row.cells)
     # Numbers right-aligned, labels and verdicts left.
     words = next(r for r in grid.rows if r.cells[0].text == "Words")
     aligns = [cell.paragraphs[0].alignment for cell in words.cells]
@@ -344,10 +348,8 @@ def test_docx_refuses_an_input_and_writes_atomically(tmp_path: Path, table: Meth
 
 def test_csv_parses_back_to_the_table(table: MethodsTable) -> None:
     rows = list(csv.reader(io.StringIO(render_csv(table))))
-    assert rows[0] == ["Group", "Measure", *NAMES, "Largest difference", "Within tolerance"]
-    assert rows[1:-1] == [
-        [r.group_label, r.label, *r.values, r.difference, r.verdict] for r in table.rows
-    ]
+    assert rows[0] == ["Group", "Measure", *NAMES, *CONTRASTS, "Within tolerance"]
+    assert rows[1:-1] == [[r.group_label, *r.cells] for r in table.rows]
     assert rows[-1][:2] == ["Note.", table.note]
     assert {len(row) for row in rows} == {len(rows[0])}  # rectangular, as RFC 4180 asks
 
@@ -359,6 +361,13 @@ UNESCAPE = [
     (r"\textasciitilde{}", "~"),
     (r"\textasciicircum{}", "^"),
     (r"\textsuperscript{2}", "²"),
+    # The cells' marks, as superscripts (\dag, \ddag: LaTeX kernel; \textdegree: textcomp,
+    # part of the kernel since 2020, from memory).
+    (r"\textsuperscript{*}", "*"),
+    (r"\textsuperscript{\dag}", "†"),
+    (r"\textsuperscript{\ddag}", "‡"),
+    (r"\textsuperscript{\textdegree}", "°"),
+    (r"$\alpha$", "α"),
     (r"$-$", "−"),
     (r"$\pm$", "±"),
     (r"$\geq$", "≥"),
@@ -384,12 +393,12 @@ def test_latex_parses_back_to_the_table(table: MethodsTable) -> None:
         body = body.replace(rule, "")
     lines = [line.strip() for line in body.split(r"\\") if line.strip()]
     parsed = [[unescape(c.strip()) for c in re.split(r"(?<!\\)&", line)] for line in lines]
-    assert parsed[0] == ["Measure", *NAMES, "Largest difference", "Within tolerance"]
+    assert parsed[0] == ["Measure", *NAMES, *CONTRASTS, "Within tolerance"]
     groups = [row[0] for row in parsed if row[0].startswith(r"\multicolumn")]
-    width = len(NAMES) + 3
+    width = len(NAMES) + len(CONTRASTS) + 2
     assert groups == [rf"\multicolumn{{{width}}}{{@{{}}l}}{{\textit{{{g}}}}}" for g in GROUPS]
     data = [row for row in parsed[1:] if not row[0].startswith(r"\multicolumn")]
-    assert data == [[r.label, *r.values, r.difference, r.verdict] for r in table.rows]
+    assert data == [list(r.cells) for r in table.rows]
     # The caption; LaTeX itself numbers the float ("Table 1" as the first table).
     assert rf"\caption{{{table.title}}}" in latex
     assert r"\textit{Note.} " in latex and r"\footnotesize" in latex
@@ -411,12 +420,18 @@ def test_markdown_has_one_line_per_row(table: MethodsTable) -> None:
     markdown = render_markdown(table)
     lines = [line for line in markdown.splitlines() if line.startswith("|")]
     assert len(lines) == len(table.rows) + 2  # header and alignment row
-    cells = [[c.strip() for c in line.strip("|").split("|")] for line in lines[2:]]
-    assert cells == [
-        [r.group_label, r.label, *r.values, r.difference, r.verdict] for r in table.rows
+    cells = [
+        [md_unescape(c.strip()) for c in re.split(r"(?<!\\)\|", line.strip("|"))]
+        for line in lines[2:]
     ]
+    assert cells == [[r.group_label, *r.cells] for r in table.rows]
     assert markdown.startswith("**Table 1**\n\n*Equivalence of the Lesson Versions*\n")
-    assert f"*Note.* {table.note}" in markdown
+    assert f"*Note.* {table.note}" in md_unescape(markdown)
+
+
+def md_unescape(text: str) -> str:
+    """CommonMark 0.31 §2.4: a backslash before ASCII punctuation stands for the character."""
+    return re.sub(r"\\([!-/:-@\[-`{-~])", r"\1", text)
 
 
 def test_text_names_what_matched_what_was_intended_and_what_differed(
@@ -425,16 +440,25 @@ def test_text_names_what_matched_what_was_intended_and_what_differed(
     text = render_text(table)
     assert text.startswith("The three versions (text_only, diagrams, and diagrams_confounded)")
     found = re.match(
-        r"The three versions \(.*?\) were matched on (.*); they differed as intended in (.*); "
+        r"The three versions \(.*?\) were matched on (.*); they differed as the design intends "
+        r"in (.*); "
         r"they differed beyond tolerance in (.*?)\. ",
         text,
     )
     assert found is not None, text
     matched, intended, differs = found.groups()
     figures = [EXPECTED[s]["figures"] for s in NAMES.values()]  # 0, 3, 3 by construction
-    assert f"the number of figures ({figures[0]}, {figures[1]}, and {figures[2]})" in intended
+    # Each difference names its contrast (compare pairs every version with the reference).
+    assert (
+        f"the number of figures ({figures[0]}, {figures[1]}, and {figures[2]}; "
+        "diagrams vs text_only +3 and diagrams_confounded vs text_only +3)"
+    ) in intended
     wps = [value_of(report, "words_per_sentence", n) for n in NAMES]
-    assert f"words per sentence ({wps[0]:.1f}, {wps[1]:.1f}, and {wps[2]:.1f})" in differs
+    assert wps[0] is not None and wps[2] is not None
+    assert (
+        f"words per sentence ({wps[0]:.1f}, {wps[1]:.1f}, and {wps[2]:.1f}; "
+        f"diagrams_confounded vs text_only −{wps[0] - wps[2]:.1f})"
+    ) in differs
     assert "the number of headings (7, 7, and 7)" in matched  # 1 + 5 + 1 by construction
     assert "words per sentence" not in matched and "figures" not in matched
     assert "(Brysbaert, 2019)" in text

@@ -496,3 +496,50 @@ def test_a_small_drop_of_coverage_is_within_tolerance() -> None:
     a, b = finding.values["a"], finding.values["b"]
     assert a is not None and b is not None and 0 < a - b <= 0.10
     assert finding.status is Status.MATCHED
+
+
+def test_taught_evidence_quotes_the_teaching_sentences_not_the_paragraphs_start() -> None:
+    # Issue 20: the bloom is taught by the 3rd and 4th sentences of a long paragraph; the
+    # evidence must quote those (what a reader checks), not its first words. Known by
+    # construction: the opening sentences share no term with the item.
+    long = (
+        "Coffee has a long history in many countries. Traders once carried sacks of it across "
+        "the sea for months. " + BLOOM + " Many people drink it with milk in the morning."
+    )
+    analyses = {
+        "long": _lesson("long", [OPENING, long, GRINDER, KETTLE]),
+        "cut": _lesson("cut", [OPENING, GRINDER, KETTLE]),
+    }
+    findings, _ = assess_posttest([BLOOM_ITEM], analyses, [("long", "cut")])
+    taught = _by_item(findings)["Q1"].evidence[0]
+    assert taught.kind == "item_taught" and taught.condition == "long"
+    assert not taught.text.startswith("Coffee has a long history")
+    assert "release gas" in taught.text and "Traders" not in taught.text
+    assert taught.location is not None and taught.location.paragraph == 2
+
+
+def _sections(name: str, sections: Sequence[tuple[str, Sequence[str]]]) -> Analysis:
+    builder = DocumentBuilder(f"{name}.md", "markdown")
+    for heading, paragraphs in sections:
+        builder.add_block(BlockKind.HEADING, heading, level=2)
+        for text in paragraphs:
+            builder.add_block(BlockKind.PARAGRAPH, text)
+    return analyze(builder.build())
+
+
+def test_not_taught_points_at_the_gap_not_at_an_early_passage() -> None:
+    # Issue 20: the "not taught" side pointed at the introduction. By construction the early
+    # "Buying Beans" paragraph shares two of the item's words (grounds, water) and is the
+    # cut version's best window overall; the bloom paragraph stood in "Brewing", which the
+    # cut version still has. The evidence must point into "Brewing", where the gap is.
+    beans = "Keep the grounds dry and away from water until you brew."
+    heat = "Heat the kettle until it is just below boiling."
+    analyses = {
+        "full": _sections("full", [("Buying Beans", [beans]), ("Brewing", [heat, BLOOM])]),
+        "cut": _sections("cut", [("Buying Beans", [beans]), ("Brewing", [heat, KETTLE])]),
+    }
+    findings, _ = assess_posttest([BLOOM_ITEM], analyses, [("full", "cut")])
+    taught, not_taught = _by_item(findings)["Q1"].evidence
+    assert taught.location is not None and taught.location.section == "Brewing"
+    assert not_taught.location is not None and not_taught.location.section == "Brewing"
+    assert taught.counterpart == not_taught.location

@@ -202,3 +202,11 @@ def test_sniff_control_characters_are_binary(tmp_path: Path) -> None:
     with pytest.raises(UnsupportedFormat):
         sniff_format(head, tmp_path / "lesson.txt")
     assert sniff_format(b"tab\tand\fform feed\r\n" * 100, tmp_path / "lesson.txt") == "text"
+
+
+def test_binary_with_zero_bytes_is_still_binary(tmp_path: Path) -> None:
+    # Random bytes (fixed seed) are neither UTF-16 nor UTF-32 ASCII text.
+    path = tmp_path / "lesson.txt"
+    path.write_bytes(random.Random(20).randbytes(4096) + b"\x00" * 16)
+    with pytest.raises(UnsupportedFormat, match="the file is binary"):
+        sniff_format(path.read_bytes()[:8192], path)

@@ -33,7 +33,7 @@ from __future__ import annotations
 import math
 import re
 from collections import Counter
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 
 from matcheck.compare import itemfacts
@@ -162,6 +162,7 @@ def assess_posttest(
     covered: dict[tuple[str, str], Coverage] = {}
     assessed: list[ItemTerms] = []
     weighted: dict[str, dict[str, float]] = {}
+    raw: dict[str, dict[str, float]] = {}
     _check_ids(items)
     for terms in needed:
         item = terms.item
@@ -173,6 +174,7 @@ def assess_posttest(
             continue
         weights = {t: smoothed_idf(len(every), frequency[t]) for t in terms.factors}
         weighted[item.id] = {t: weights[t] * f for t, f in terms.factors.items()}
+        raw[item.id] = weights
         for name in units:
             covered[item.id, name] = coverage(terms, units[name], weights)
         assessed.append(terms)
@@ -181,8 +183,21 @@ def assess_posttest(
                 f"post-test item {item.id} ({excerpt(item.question, QUESTION_EXCERPT_WORDS)}) "
                 "is taught in no condition: the test asks for what no version teaches"
             )
+
+    def near(terms: ItemTerms, name: str, section: str | None) -> Location | None:
+        """Where ``name`` would teach the item: its best window in the section (same heading)
+        that teaches it in the other version, or that section's start; ``None`` if it has no
+        such section. A version that lost the teaching passage is then pointed at the gap,
+        not at whichever early passage happens to share a few of the item's words."""
+        inside = [unit for unit in units[name] if unit.location.section == section]
+        if section is None or not inside:
+            return None
+        return coverage(terms, inside, raw[terms.item.id]).location or inside[0].location
+
     observed = [
-        _observe(terms, reference, condition, covered, weighted[terms.item.id], limit, tolerances)
+        _observe(
+            terms, reference, condition, covered, weighted[terms.item.id], limit, tolerances, near
+        )
         for reference, condition in pairs
         for terms in assessed
     ]
@@ -209,6 +224,7 @@ def _observe(
     weights: Mapping[str, float],
     limit: float,
     tolerances: Mapping[str, Tolerance],
+    near: Callable[[ItemTerms, str, str | None], Location | None] | None = None,
 ) -> Observation:
     item = terms.item
     ref, cond = covered[item.id, reference], covered[item.id, condition]
@@ -241,6 +257,8 @@ def _observe(
         missing = sorted(terms.factors.keys() - weak.present, key=lambda t: (-weights[t], t))
         missing = [itemfacts.label(term) for term in missing]
         assert good.passage is not None  # the better window holds some of the terms
+        section = good.passage.location.section
+        place = (near(terms, less, section) if near else None) or weak.location
         evidence = (
             Evidence(
                 kind=EvidenceKind.ITEM_TAUGHT,
@@ -248,13 +266,13 @@ def _observe(
                 text=teaching_sentences(good.passage.text, weights),
                 location=good.location,
                 weight=good.share,
-                counterpart=weak.location,
+                counterpart=place,
             ),
             Evidence(
                 kind=EvidenceKind.ITEM_NOT_TAUGHT if mismatch else EvidenceKind.ITEM_COVERED_LESS,
                 condition=less,
                 text=item.question,
-                location=weak.location,
+                location=place,
                 weight=weak.share,
                 counterpart=good.location,
                 counterpart_text=f"missing: {', '.join(missing)}",

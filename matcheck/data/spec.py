@@ -13,6 +13,7 @@ from pathlib import Path
 from typing import Any
 
 from matcheck.errors import ConfigError
+from matcheck.valuetypes import got
 
 DATA_KEYS = {
     "files",
@@ -72,7 +73,8 @@ def _columns(value: Any, key: str, shown: str) -> tuple[str, ...]:
     if isinstance(value, list) and value and all(isinstance(v, str) and v for v in value):
         return tuple(value)
     raise ConfigError(
-        f"{key} must be a column name or a non-empty list of column names", path=shown
+        f"{key} must be a column name or a non-empty list of column names, {got(value)}",
+        path=shown,
     )
 
 
@@ -82,9 +84,15 @@ def _number(
     value = data.get(key, default)
     if value is None:
         return None
-    if isinstance(value, bool) or not isinstance(value, int | float) or not low < value <= high:
+    if isinstance(value, bool) or not isinstance(value, int | float):
         raise ConfigError(
-            f"data.{key} must be a number above {low:g} and at most {high:g}", path=shown
+            f"data.{key} must be a number above {low:g} and at most {high:g}, {got(value)}",
+            path=shown,
+        )
+    if not low < value <= high:
+        raise ConfigError(
+            f"data.{key} must be a number above {low:g} and at most {high:g}, not {value:g}",
+            path=shown,
         )
     return float(value)
 
@@ -96,7 +104,7 @@ def parse_data(path: Path, data: Any, *, allow_outside: bool = False) -> DataSpe
 
     shown = str(path)
     if not isinstance(data, dict):
-        raise ConfigError("[data] must be a table", path=shown)
+        raise ConfigError(f"[data] must be a table, {got(data)}", path=shown)
     for key in data:
         if key not in DATA_KEYS:
             raise ConfigError(
@@ -115,12 +123,17 @@ def parse_data(path: Path, data: Any, *, allow_outside: bool = False) -> DataSpe
         )
     for key in ("id", "condition", "time", "completed", "sheet"):
         if key in data and not (isinstance(data[key], str) and data[key]):
-            raise ConfigError(f"data.{key} must be a column name", path=shown)
+            raise ConfigError(
+                f"data.{key} must be a column name (a string), {got(data[key])}", path=shown
+            )
     if "posttest" not in data:
         raise ConfigError("data.posttest is missing (the post-test's item columns)", path=shown)
     boundary = data.get("attrition_boundary", "cautious")
     if boundary not in ("cautious", "optimistic"):
-        raise ConfigError('data.attrition_boundary must be "cautious" or "optimistic"', path=shown)
+        raise ConfigError(
+            f'data.attrition_boundary must be "cautious" or "optimistic", {got(boundary)}',
+            path=shown,
+        )
     bound = _number(data, "equivalence_bound", shown, 0, 5, DEFAULT_EQUIVALENCE_BOUND)
     effect = _number(data, "smallest_effect", shown, 0, 5, DEFAULT_SMALLEST_EFFECT)
     alpha = _number(data, "alpha", shown, 0, 0.5, DEFAULT_ALPHA)

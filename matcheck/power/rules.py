@@ -8,6 +8,8 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
+from matcheck.valuetypes import got
+
 # name → (accepts, what it must be)
 RULES: dict[str, tuple[Callable[[float], bool], str]] = {
     # Above 5 SD is no effect a study of instruction plans for: almost surely points or a
@@ -35,7 +37,7 @@ def problem(name: str, value: object, label: str) -> str | None:
     """``None`` if ``value`` is valid for ``name``, else the complaint naming ``label``."""
     accepts, wanted = RULES[name]
     if isinstance(value, bool) or not isinstance(value, int | float):
-        return f"{label} must be {wanted}, not {value!r}"
+        return f"{label} must be {wanted}, {got(value)}"
     number = float(value)
     if number != number or not accepts(number):  # NaN fails every rule
         return f"{label} must be {wanted}, not {value:g}"

@@ -17,6 +17,7 @@ from typing import TYPE_CHECKING, Any, Protocol
 from matcheck.errors import ConfigError
 from matcheck.power.designs import TIMES, Design, Kind, Measure, Term
 from matcheck.power.rules import problem
+from matcheck.valuetypes import got
 
 if TYPE_CHECKING:
     from matcheck.findings import Finding
@@ -91,7 +92,7 @@ def _number(table: Mapping[str, Any], key: str, rule: str, shown: str) -> Any:
 def parse_sample(table: Any, shown: str) -> SamplePlan:
     """Validate ``[sample]``; ConfigError naming the key."""
     if not isinstance(table, dict):
-        raise ConfigError("[sample] must be a table", path=shown)
+        raise ConfigError(f"[sample] must be a table, {got(table)}", path=shown)
     for key in table:
         if key not in SAMPLE_KEYS:
             allowed = ", ".join(sorted(SAMPLE_KEYS))
@@ -122,7 +123,9 @@ def parse_sample(table: Any, shown: str) -> SamplePlan:
     effect, effects = _effects(table, shown)
     one_sided = table.get("one_sided", False)
     if not isinstance(one_sided, bool):
-        raise ConfigError("sample.one_sided must be true or false", path=shown)
+        raise ConfigError(
+            f"sample.one_sided must be true or false (a boolean), {got(one_sided)}", path=shown
+        )
     return SamplePlan(
         smallest_effect=effect,
         effects=effects,

@@ -127,7 +127,12 @@ class DocumentBuilder:
             self._paragraphs += 1
             ordinal = self._paragraphs
         location = Location(
-            len(self._blocks), page=page, line=line, section=self._section, paragraph=ordinal
+            len(self._blocks),
+            page=page,
+            line=line,
+            section=self._section,
+            paragraph=ordinal,
+            after_paragraph=None if ordinal else self._paragraphs,
         )
         block = Block(kind, text, location, level, group, spans)
         self._blocks.append(block)
@@ -148,7 +153,13 @@ class DocumentBuilder:
         page: int | None = None,
         line: int | None = None,
     ) -> Figure:
-        location = Location(len(self._blocks) - 1, page=page, line=line, section=self._section)
+        location = Location(
+            len(self._blocks) - 1,
+            page=page,
+            line=line,
+            section=self._section,
+            after_paragraph=self._paragraphs,
+        )
         figure = Figure(
             location,
             source,

@@ -22,6 +22,7 @@ def join_documents(parts: Sequence[Document]) -> Document:
     group_offset = 0
     for index, part in enumerate(parts):
         offset = len(blocks)
+        before = paragraphs  # paragraphs of the earlier parts
         # List and table ids are numbered per file; shift them so parts never share one.
         groups = [block.group for block in part.blocks if block.group is not None]
         for block in part.blocks:
@@ -34,11 +35,17 @@ def join_documents(parts: Sequence[Document]) -> Document:
                 block=offset + block.location.block,
                 paragraph=paragraph,
                 part=index,
+                after_paragraph=_shift(block.location.after_paragraph, before),
             )
             group = None if block.group is None else block.group + group_offset
             blocks.append(replace(block, location=location, group=group))
         for figure in part.figures:
-            location = replace(figure.location, block=offset + figure.location.block, part=index)
+            location = replace(
+                figure.location,
+                block=offset + figure.location.block,
+                part=index,
+                after_paragraph=_shift(figure.location.after_paragraph, before),
+            )
             figures.append(replace(figure, location=location))
         group_offset += max(groups, default=0)
         warnings += [f"{part.name}: {w}" for w in part.warnings]
@@ -54,3 +61,7 @@ def join_documents(parts: Sequence[Document]) -> Document:
         warnings=tuple(warnings),
         cannot_show=frozenset().union(*(part.cannot_show for part in parts)),
     )
+
+
+def _shift(after: int | None, before: int) -> int | None:
+    return None if after is None else after + before

@@ -51,8 +51,9 @@ def _files(report: Report) -> dict[str, tuple[str, ...]]:
 def _place(
     finding: Finding, files: dict[str, tuple[str, ...]]
 ) -> tuple[str | None, int | None, Evidence | None]:
-    """The file (the right part of a lesson in parts) and line of the first evidence."""
-    for item in finding.evidence:
+    """The file (the right part of a lesson in parts) and line of the first located evidence
+    (an unlocated one, such as an emphasised term, only when none is located)."""
+    for item in sorted(finding.evidence, key=lambda e: e.location is None):
         paths = files.get(item.condition)
         if paths:
             part = item.location.part if item.location and item.location.part else 0

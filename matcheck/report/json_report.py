@@ -23,6 +23,7 @@ def location_dict(location: Location | None) -> dict[str, Any] | None:
         "section": location.section,
         "paragraph": location.paragraph,
         "part": location.part,
+        "after_paragraph": location.after_paragraph,
         "description": location.describe(),
     }
 

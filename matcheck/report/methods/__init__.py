@@ -1,4 +1,5 @@
-"""The equivalence table for a methods section: one row per measure, one column per condition.
+"""The equivalence table for a methods section: one row per measure, one column per condition
+and one per contrast (``contrasts``), and a note naming what no row shows (``mentions``).
 
 :func:`methods_table` (``build``) turns a :class:`~matcheck.findings.Report` into a
 :class:`MethodsTable` of formatted strings (``model``); every renderer only lays those strings
@@ -11,6 +12,7 @@ ask authors to describe each condition's materials and how they were made equiva
 from __future__ import annotations
 
 from matcheck.report.methods.build import methods_table
+from matcheck.report.methods.contrasts import Contrast
 from matcheck.report.methods.csv_file import render_csv
 from matcheck.report.methods.latex import escape_latex, render_latex
 from matcheck.report.methods.markdown import render_markdown
@@ -18,6 +20,8 @@ from matcheck.report.methods.model import (
     NOT_PROOF,
     TITLE,
     VERDICTS,
+    AcceptedRow,
+    Mention,
     MethodsRow,
     MethodsTable,
     TableMeasure,
@@ -31,6 +35,9 @@ __all__ = [
     "NOT_PROOF",
     "TITLE",
     "VERDICTS",
+    "AcceptedRow",
+    "Contrast",
+    "Mention",
     "MethodsRow",
     "MethodsTable",
     "TableMeasure",

@@ -12,10 +12,10 @@ from matcheck.report.methods.model import MethodsTable
 def render_csv(table: MethodsTable, options: RenderOptions | None = None) -> str:
     """RFC 4180 CSV; the note is the last row, ``Note.`` in the Group column, padded to width.
 
-    Accepted differences come before the note, one row each with ``Accepted.`` in the Group
-    column and the sentence with its reason in the next. Every row has the same number of
-    fields, so spreadsheets and ``csv.reader`` read it as is; a reader that wants only the
-    data drops the rows whose first field is ``Accepted.`` or ``Note.``.
+    Every row has the same number of fields, so spreadsheets and ``csv.reader`` read it as is;
+    a reader that wants only the data drops the rows whose first field is ``Accepted.`` or
+    ``Note.``. Accepted differences come before the note, one row each with ``Accepted.`` in
+    the Group column and the sentence with its reason in the next.
     """
     from matcheck.report.escape import csv_cell
 
@@ -28,7 +28,7 @@ def render_csv(table: MethodsTable, options: RenderOptions | None = None) -> str
     writer.writerow([csv_cell(cell) for cell in ("Group", *table.header)])
     for row in table.rows:
         label = (csv_cell(row.group_label), csv_cell(row.label))
-        writer.writerow((*label, *row.values, row.difference, row.verdict))
+        writer.writerow((*label, *row.values, *row.contrasts, row.verdict))
     for accepted in table.accepted:
         writer.writerow(("Accepted.", csv_cell(accepted.sentence), *([""] * (width - 2))))
     writer.writerow(("Note.", csv_cell(table.note), *([""] * (width - 2))))

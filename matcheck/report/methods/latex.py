@@ -24,8 +24,18 @@ _LATEX = str.maketrans(
         "≥": r"$\geq$",
         "≤": r"$\leq$",
         "²": r"\textsuperscript{2}",
+        "†": r"\textsuperscript{\dag}",
+        "‡": r"\textsuperscript{\ddag}",
+        "°": r"\textsuperscript{\textdegree}",
+        "*": r"\textsuperscript{*}",
+        "α": r"$\alpha$",
     }
 )
+
+
+# Past this many columns a table no longer fits the text width at normal size and spacing
+# (about 2 cm a column; a judgment call, common practice).
+_NORMAL_COLUMNS = 8
 
 
 def escape_latex(text: str) -> str:
@@ -42,10 +52,14 @@ def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> s
     Needs ``\\usepackage{booktabs}`` in the preamble.
     """
     width = len(table.header)
-    spec = "@{}l" + "r" * (len(table.columns) + 1) + "l@{}"
+    spec = "@{}l" + "r" * (width - 2) + "l@{}"
     lines = [
         r"\begin{table}[htbp]",
         r"\centering",
+        # A column per condition and per contrast: a wide table is set smaller and tighter
+        # (inside the float, so the rest of the document is untouched); the Word output
+        # turns the page instead (word._PORTRAIT_COLUMNS).
+        *((r"\small", r"\setlength{\tabcolsep}{3pt}") if width > _NORMAL_COLUMNS else ()),
         f"% Table {table.number} of the matcheck report; LaTeX numbers floats in document order.",
         rf"\caption{{{escape_latex(table.title)}}}",
         rf"\label{{tab:equivalence-{table.number}}}",
@@ -60,7 +74,7 @@ def render_latex(table: MethodsTable, options: RenderOptions | None = None) -> s
         label = escape_latex(rows[0].group_label)
         lines.append(rf"\multicolumn{{{width}}}{{@{{}}l}}{{\textit{{{label}}}}} \\")
         for row in rows:
-            cells = (row.label, *row.values, row.difference, row.verdict)
+            cells = row.cells
             lines.append(" & ".join(escape_latex(cell) for cell in cells) + r" \\")
     lines += [
         r"\bottomrule",

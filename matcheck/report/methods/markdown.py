@@ -21,10 +21,10 @@ def render_markdown(table: MethodsTable, options: RenderOptions | None = None) -
         f"*{_md(table.title)}*",
         "",
         "| " + " | ".join(_md(cell) for cell in header) + " |",
-        "|---|---|" + "--:|" * (len(table.columns) + 1) + "---|",
+        "|---|---|" + "--:|" * (len(table.header) - 2) + "---|",
     ]
     for row in table.rows:
-        cells = (row.group_label, row.label, *row.values, row.difference, row.verdict)
+        cells = (row.group_label, *row.cells)
         lines.append("| " + " | ".join(_md(cell) for cell in cells) + " |")
     lines += ["", f"*Note.* {_md(table.note)}"]
     if table.accepted:

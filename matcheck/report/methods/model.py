@@ -10,6 +10,7 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from matcheck.findings import Status
+from matcheck.report.methods.contrasts import Contrast
 from matcheck.settings import DEFAULT_WPM
 
 if TYPE_CHECKING:
@@ -18,10 +19,12 @@ if TYPE_CHECKING:
 TITLE = "Equivalence of the Lesson Versions"
 NOT_PROOF = "Matched measures do not prove equivalence; see the full report."
 
-VERDICTS = {
+# A row's verdict, by the status of its worst unmanipulated contrast. ``accepted`` is a
+# difference the study file accepts with a reason ([[accepted]]).
+VERDICTS: dict[str, str] = {
     Status.MATCHED: "yes",
     Status.DIFFERS: "no",
-    Status.INTENDED: "intended",
+    Status.INTENDED: "manipulated",
     Status.INCONCLUSIVE: "n/a",
     Status.ACCEPTED: "accepted",
 }
@@ -75,11 +78,16 @@ def measure_of(key: str) -> TableMeasure:
 
 @dataclass(frozen=True, slots=True)
 class MethodsRow:
-    """One measure: its value in each condition, the largest difference and the verdict.
+    """One measure: its value in each condition, its difference in each contrast, the verdict.
 
     ``measure`` is the measure id, or ``passages_without_counterpart`` /
-    ``posttest_items_taught`` for the two rows made from several findings. ``verdict`` is
-    ``yes`` (within tolerance), ``no`` (differs), ``intended`` or ``n/a`` (inconclusive).
+    ``posttest_items_taught`` for the two rows made from several findings. ``contrasts``
+    are the cells of the contrast columns (difference and mark, ``contrasts.MARKS``);
+    ``differences`` and ``statuses`` the same unmarked, and each contrast's status
+    (``""`` where the contrast has no finding). ``difference`` is the largest difference
+    over the contrasts that do not manipulate the measure (``—`` if every one does).
+    ``verdict`` is ``yes`` (within tolerance in every unmanipulated contrast), ``no``,
+    ``accepted``, ``n/a`` (inconclusive) or ``manipulated`` (in every contrast).
     """
 
     group: str
@@ -89,6 +97,14 @@ class MethodsRow:
     difference: str
     verdict: str
     tolerance: str = ""
+    contrasts: tuple[str, ...] = ()
+    differences: tuple[str, ...] = ()
+    statuses: tuple[str, ...] = ()
+
+    @property
+    def cells(self) -> tuple[str, ...]:
+        """What every renderer shows, in column order after the group."""
+        return (self.label, *self.values, *self.contrasts, self.verdict)
 
     @property
     def group_label(self) -> str:
@@ -121,6 +137,26 @@ class AcceptedRow:
 
 
 @dataclass(frozen=True, slots=True)
+class Mention:
+    """A finding the reader must know of beyond the rows: a difference with no row, an
+    accepted difference and its reason, an inconclusive comparison and why.
+
+    ``verdict`` is a ``VERDICTS`` word; ``contrast`` the header of its contrast; ``where``
+    the place of its first evidence; ``follows`` the measure it echoes, if any.
+    """
+
+    verdict: str
+    label: str
+    contrast: str
+    difference: str
+    where: str = ""
+    reason: str = ""
+    follows: str = ""
+    in_table: bool = False
+    item: bool = False  # a post-test item (the row counts items; the note names them)
+
+
+@dataclass(frozen=True, slots=True)
 class MethodsTable:
     number: int
     title: str
@@ -133,6 +169,11 @@ class MethodsTable:
     # The power of the planned sample, for the methods section ("" without [sample]).
     sample_size: str = ""
     accepted: tuple[AcceptedRow, ...] = ()
+    # The compared pairs, one column each; what the table has no row for, and the
+    # equivalence tests behind "yes" (sentences shared by the note and the paragraph).
+    contrasts: tuple[Contrast, ...] = ()
+    mentions: tuple[Mention, ...] = ()
+    equivalence: tuple[str, ...] = ()
 
     @property
     def note(self) -> str:
@@ -140,7 +181,12 @@ class MethodsTable:
 
     @property
     def header(self) -> tuple[str, ...]:
-        return ("Measure", *self.columns, "Largest difference", "Within tolerance")
+        return (
+            "Measure",
+            *self.columns,
+            *(contrast.header for contrast in self.contrasts),
+            "Within tolerance",
+        )
 
     def groups(self) -> list[tuple[str, tuple[MethodsRow, ...]]]:
         """The rows by group, in report order (group ids)."""

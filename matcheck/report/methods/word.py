@@ -13,6 +13,7 @@ from matcheck.report.formatter import RenderOptions
 from matcheck.report.methods.model import MethodsTable
 
 if TYPE_CHECKING:
+    from docx.document import Document as DocxDocument
     from docx.table import Table as DocxTable
     from docx.table import _Cell
 
@@ -59,6 +60,7 @@ def _xml_safe(table: MethodsTable) -> MethodsTable:
             values=clean(row.values),
             difference=xml_text(row.difference),
             verdict=xml_text(row.verdict),
+            contrasts=clean(row.contrasts),
         )
         for row in table.rows
     )
@@ -66,6 +68,10 @@ def _xml_safe(table: MethodsTable) -> MethodsTable:
         table,
         title=xml_text(table.title),
         columns=clean(table.columns),
+        contrasts=tuple(
+            replace(c, reference=xml_text(c.reference), condition=xml_text(c.condition))
+            for c in table.contrasts
+        ),
         rows=rows,
         notes=clean(table.notes),
     )
@@ -79,6 +85,8 @@ def render_docx(table: MethodsTable, options: RenderOptions | None = None) -> by
     table = _xml_safe(table)
     document = Document()
     document.core_properties.title = table.title
+    if len(table.header) > _PORTRAIT_COLUMNS:
+        _landscape(document)
     document.add_paragraph().add_run(f"Table {table.number}").bold = True
     document.add_paragraph().add_run(table.title).italic = True
     width = len(table.header)
@@ -94,7 +102,7 @@ def render_docx(table: MethodsTable, options: RenderOptions | None = None) -> by
         spanner = cells[0].merge(cells[-1])
         spanner.paragraphs[0].add_run(rows[0].group_label).italic = True
         for row in rows:
-            texts = (row.label, *row.values, row.difference, row.verdict)
+            texts = row.cells
             for index, (cell, text) in enumerate(zip(grid.add_row().cells, texts, strict=True)):
                 _fill(cell, text, right=index in right)
     note = document.add_paragraph()
@@ -108,6 +116,22 @@ def render_docx(table: MethodsTable, options: RenderOptions | None = None) -> by
     buffer = io.BytesIO()
     document.save(buffer)
     return buffer.getvalue()
+
+
+# A column per condition and per contrast: past this many columns the table no longer fits a
+# portrait page at a readable size (about 2 cm a column on A4/Letter; a judgment call, common
+# practice); APA 7 style lets a wide table stand on a landscape page (from memory).
+_PORTRAIT_COLUMNS = 8
+
+
+def _landscape(document: DocxDocument) -> None:
+    from docx.enum.section import WD_ORIENT
+
+    section = document.sections[0]
+    width, height = section.page_width, section.page_height
+    section.orientation = WD_ORIENT.LANDSCAPE
+    if width is not None and height is not None and width < height:
+        section.page_width, section.page_height = height, width
 
 
 def _fill(cell: _Cell, text: str, *, right: bool) -> None:
