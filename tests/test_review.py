@@ -11,6 +11,7 @@ import sys
 from pathlib import Path
 
 import pytest
+from gitrepo import git
 
 from matcheck.cli import main
 
@@ -39,15 +40,6 @@ levels = { diagrams = "with" }
 """
 
 
-def _git(repo: Path, *args: str) -> None:
-    subprocess.run(
-        ["git", "-c", "user.name=t", "-c", "user.email=t@example.org", *args],
-        cwd=repo,
-        check=True,
-        capture_output=True,
-    )
-
-
 @pytest.fixture
 def repo(tmp_path: Path) -> Path:
     if shutil.which("git") is None:
@@ -60,13 +52,13 @@ def repo(tmp_path: Path) -> Path:
     (study / "text.md").write_text(BASE, encoding="utf-8")
     (study / "diagrams.md").write_text((FIXTURES / "diagrams.md").read_text("utf-8"), "utf-8")
     (study / "study.toml").write_text(STUDY, encoding="utf-8")
-    _git(root, "init", "-q")
-    _git(root, "add", ".")
-    _git(root, "commit", "-qm", "study")
+    git(root, "init", "-q")
+    git(root, "add", ".")
+    git(root, "commit", "-qm", "study")
     # The change under review: the diagrams version silently loses a paragraph.
     changed = (study / "diagrams.md").read_text("utf-8").replace(DROPPED + "\n\n", "")
     (study / "diagrams.md").write_text(changed, encoding="utf-8")
-    _git(root, "commit", "-qam", "edit diagrams")
+    git(root, "commit", "-qam", "edit diagrams")
     return root
 
 
@@ -153,7 +145,7 @@ def test_against_new_differences_are_errors_and_old_ones_notices(
     diagrams = (study / "diagrams.md").read_text("utf-8")
     anchor = "Put just enough air"
     (study / "diagrams.md").write_text(diagrams.replace(anchor, ADDED + "\n\n" + anchor), "utf-8")
-    _git(repo, "commit", "-qam", "add a passage on rim tape")
+    git(repo, "commit", "-qam", "add a passage on rim tape")
     summary = repo / "summary.md"
     monkeypatch.setenv("GITHUB_STEP_SUMMARY", str(summary))
     monkeypatch.chdir(repo)
@@ -191,11 +183,11 @@ def test_against_a_grown_difference_is_new(repo: Path, capsys: pytest.CaptureFix
     # The same measure differed at HEAD~1, but the pull request makes it larger.
     study = repo / "study"
     (study / "study.toml").write_text(STUDY + '\n[tolerances]\nwords = "3%"\n', "utf-8")
-    _git(repo, "commit", "-qam", "agree a tolerance")
+    git(repo, "commit", "-qam", "agree a tolerance")
     other = next(p for p in BASE.split("\n\n") if p.startswith("Before you patch"))
     diagrams = (study / "diagrams.md").read_text("utf-8").replace(other + "\n\n", "")
     (study / "diagrams.md").write_text(diagrams, "utf-8")
-    _git(repo, "commit", "-qam", "drop another paragraph")
+    git(repo, "commit", "-qam", "drop another paragraph")
     main(["check", str(study / "study.toml"), "--against", "HEAD~1", "--format", "json"])
     findings = json.loads(capsys.readouterr().out)["findings"]
     words = next(f for f in findings if f["dimension"] == "words")
@@ -216,9 +208,9 @@ def _two_studies(tmp_path: Path) -> Path:
         (study / "diagrams.md").write_text(diagrams, "utf-8")
         (study / "study.toml").write_text(STUDY, encoding="utf-8")
     (root / "README.md").write_text("Lesson materials.\n", encoding="utf-8")
-    _git(root, "init", "-q")
-    _git(root, "add", ".")
-    _git(root, "commit", "-qm", "two studies")
+    git(root, "init", "-q")
+    git(root, "add", ".")
+    git(root, "commit", "-qm", "two studies")
     return root
 
 
@@ -254,7 +246,7 @@ def test_pre_commit_hook_checks_only_the_studies_with_staged_files(tmp_path: Pat
     # Only the second study changes: its diagrams version loses a paragraph.
     brakes = repo / "brakes" / "diagrams.md"
     brakes.write_text(brakes.read_text("utf-8").replace(DROPPED + "\n\n", ""), "utf-8")
-    _git(repo, "add", "brakes/diagrams.md")
+    git(repo, "add", "brakes/diagrams.md")
     command = _hook_command()
     for extra in (_staged(repo), []):  # as pre-commit passes the files; as a plain Git hook
         result = subprocess.run(
@@ -267,9 +259,9 @@ def test_pre_commit_hook_checks_only_the_studies_with_staged_files(tmp_path: Pat
         assert "brakes/study.toml" in result.stdout and "bikes" not in result.stdout
         assert "Traceback" not in result.stderr
     # Nothing of a study staged: nothing to check, the commit goes ahead.
-    _git(repo, "reset", "-q")
+    git(repo, "reset", "-q")
     (repo / "README.md").write_text("Lesson materials, autumn.\n", encoding="utf-8")
-    _git(repo, "add", "README.md")
+    git(repo, "add", "README.md")
     result = subprocess.run(
         [*command, *_staged(repo)], cwd=repo, capture_output=True, text=True, check=False
     )
@@ -277,7 +269,7 @@ def test_pre_commit_hook_checks_only_the_studies_with_staged_files(tmp_path: Pat
     # A study file staged on its own counts as that study's change.
     study = repo / "bikes" / "study.toml"
     study.write_text(STUDY + "# reviewed\n", encoding="utf-8")
-    _git(repo, "add", "bikes/study.toml")
+    git(repo, "add", "bikes/study.toml")
     result = subprocess.run(
         [*command, *_staged(repo)], cwd=repo, capture_output=True, text=True, check=False
     )
@@ -315,7 +307,7 @@ def test_step_summary_of_a_folder_lists_every_study_s_new_problems_first(
     repo = _two_studies(tmp_path)
     brakes = repo / "brakes" / "diagrams.md"
     brakes.write_text(brakes.read_text("utf-8").replace(DROPPED + "\n\n", ""), "utf-8")
-    _git(repo, "commit", "-qam", "the brakes lesson loses a paragraph")
+    git(repo, "commit", "-qam", "the brakes lesson loses a paragraph")
     summary = repo / "summary.md"
     monkeypatch.setenv("GITHUB_STEP_SUMMARY", str(summary))
     monkeypatch.chdir(repo)

@@ -18,10 +18,10 @@ import json
 import os
 import re
 import shutil
-import subprocess
 from pathlib import Path
 
 import pytest
+from gitrepo import git
 
 from matcheck.cli import main
 from matcheck.paths import MAX_STUDY_BYTES
@@ -383,22 +383,13 @@ def test_docx_table_with_control_characters(
 # --- --against in a real repository -------------------------------------------------------
 
 
-def _git(repo: Path, *args: str) -> None:
-    subprocess.run(
-        ["git", "-c", "user.name=t", "-c", "user.email=t@example.org", *args],
-        cwd=repo,
-        check=True,
-        capture_output=True,
-    )
-
-
 @pytest.fixture
 def repo(tmp_path: Path) -> Path:
     if shutil.which("git") is None:
         pytest.skip("git is not installed")
     root = tmp_path / "repo"
     _study(root / "study")
-    _git(root, "init", "-q")
+    git(root, "init", "-q")
     return root
 
 
@@ -407,8 +398,8 @@ def test_against_with_unused_unsafe_links(
 ) -> None:
     (repo / "study" / "absolute.md").symlink_to(secret)
     (repo / "study" / "escaping.md").symlink_to("../../outside/secret.md")
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-qm", "one")
+    git(repo, "add", "-A")
+    git(repo, "commit", "-qm", "one")
     status, out, err = _run(capsys, "check", repo / "study" / "study.toml", "--against", "HEAD")
     assert status == 1, err
     assert SECRET not in out
@@ -419,8 +410,8 @@ def test_against_with_a_used_unsafe_link(
 ) -> None:
     study = _study(repo / "study", files=("a.md", "escaping.md"), write_lessons=False)
     (repo / "study" / "escaping.md").symlink_to("../../outside/secret.md")
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-qm", "one")
+    git(repo, "add", "-A")
+    git(repo, "commit", "-qm", "one")
     status, out, err = _run(capsys, "check", study, "--against", "HEAD", "--allow-outside")
     _refused(status, out, err, "at HEAD", "escaping.md")
     assert "matcheck-rev-" not in err
@@ -430,8 +421,8 @@ def test_against_with_a_blob_above_the_file_limit(
     capsys: pytest.CaptureFixture[str], repo: Path
 ) -> None:
     (repo / "study" / "big.bin").write_bytes(b"\0" * 300_000)
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-qm", "one")
+    git(repo, "add", "-A")
+    git(repo, "commit", "-qm", "one")
     study = repo / "study" / "study.toml"
     # Unused: left out, the check goes on.
     status, _, err = _run(
@@ -440,7 +431,7 @@ def test_against_with_a_blob_above_the_file_limit(
     assert status == 1, err
     # Used: one line saying why.
     _study(repo / "study", files=("a.md", "big.bin"), write_lessons=False)
-    _git(repo, "commit", "-qam", "two")
+    git(repo, "commit", "-qam", "two")
     status, _, err = _run(
         capsys, "check", study, "--against", "HEAD", "--limit", "max_file_bytes=200000"
     )
@@ -450,8 +441,8 @@ def test_against_with_a_blob_above_the_file_limit(
 def test_against_with_a_study_linked_from_outside_the_repository(
     capsys: pytest.CaptureFixture[str], repo: Path, tmp_path: Path
 ) -> None:
-    _git(repo, "add", "-A")
-    _git(repo, "commit", "-qm", "one")
+    git(repo, "add", "-A")
+    git(repo, "commit", "-qm", "one")
     elsewhere = _study(tmp_path / "elsewhere")
     link = repo / "study" / "linked.toml"
     link.symlink_to(elsewhere)
