@@ -24,9 +24,13 @@ def main(argv: list[str]) -> int:
     start = time.perf_counter()
     completed = subprocess.run(argv, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
     wall = time.perf_counter() - start
-    peak_kib = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
+    usage = resource.getrusage(resource.RUSAGE_CHILDREN)
+    peak_kib = usage.ru_maxrss
     result = {
         "seconds": wall,
+        # Processor time of the command and its workers: on a shared machine the wall time
+        # also holds the waits for a core, which this does not.
+        "cpu_seconds": usage.ru_utime + usage.ru_stime,
         "peak_mib": peak_kib / 1024,
         "returncode": completed.returncode,
         "stderr": completed.stderr.decode("utf-8", "replace")[-2000:],

@@ -1,7 +1,8 @@
 """The benchmark: wall time and peak memory of whole ``matcheck`` processes, beside a baseline.
 
     python benchmarks/run.py [--sizes 1000,5000,20000,100000] [--formats docx,pdf,md]
-                             [--repeat N] [--sections pairs,help] [--json results.json]
+                             [--repeat N] [--sections pairs,studies,help,recheck,folder]
+                             [--json results.json]
 
 Lessons are generated into a temporary folder (never the repository) by
 :mod:`benchmarks.lessons`. Each measurement is a separate process started through
@@ -19,6 +20,7 @@ import argparse
 import itertools
 import json
 import math
+import os
 import shutil
 import statistics
 import subprocess
@@ -47,6 +49,7 @@ HELP_SECONDS = 0.5
 class Run:
     seconds: float
     peak_mib: float
+    cpu_seconds: float = 0.0
 
 
 @dataclass
@@ -61,10 +64,13 @@ class PairRow:
         return self.matcheck.seconds / self.baseline.seconds
 
 
-def measure(command: list[str], repeat: int) -> Run:
-    """Median wall time and highest peak memory of ``repeat`` runs of ``command``."""
-    times, peaks = [], []
-    for _ in range(repeat):
+def measure(command: list[str], repeat: int, before: Callable[[int], None] | None = None) -> Run:
+    """Median wall and processor time and highest peak memory of ``repeat`` runs of
+    ``command``; ``before(i)`` prepares run ``i`` (empties the cache, changes a file, ...)."""
+    times, peaks, cpus = [], [], []
+    for index in range(repeat):
+        if before is not None:
+            before(index)
         out = subprocess.run(
             [PYTHON, str(HERE / "peak.py"), "--", *command],
             check=True,
@@ -76,7 +82,8 @@ def measure(command: list[str], repeat: int) -> Run:
             raise SystemExit(f"{' '.join(command)} failed:\n{result['stderr']}")
         times.append(result["seconds"])
         peaks.append(result["peak_mib"])
-    return Run(statistics.median(times), max(peaks))
+        cpus.append(result["cpu_seconds"])
+    return Run(statistics.median(times), max(peaks), statistics.median(cpus))
 
 
 @dataclass
@@ -103,6 +110,7 @@ def run_pairs(options: argparse.Namespace, work: Path) -> Section:
             words = lesson_words(make_lesson(size))
             report = work / fmt / f"report-{size}.json"
             compare = [PYTHON, "-m", "matcheck", "compare", str(a), str(b), "-f", "json"]
+            compare.append("--no-cache")  # every run reads and measures (see the cache sections)
             matcheck = measure([*compare, "-o", str(report)], options.repeat)
             json.loads(report.read_text(encoding="utf-8"))  # the report was written and parses
             baseline = measure([PYTHON, str(HERE / "baseline.py"), str(a), str(b)], options.repeat)
@@ -151,7 +159,7 @@ def run_studies(options: argparse.Namespace, work: Path) -> Section:
                 relative = path.relative_to(study).as_posix()
                 lines.append(f'[[conditions]]\nname = "{name}"\nfiles = ["{relative}"]\n')
         (study / "study.toml").write_text("\n".join(lines), encoding="utf-8")
-    command = [PYTHON, "-m", "matcheck", "check", str(folder), "-f", "json", "-o"]
+    command = [PYTHON, "-m", "matcheck", "check", str(folder), "--no-cache", "-f", "json", "-o"]
     one = measure([*command, str(work / "one.json"), "--jobs", "1"], options.repeat)
     two = measure([*command, str(work / "two.json"), "--jobs", "2"], options.repeat)
     speedup = one.seconds / two.seconds
@@ -203,11 +211,145 @@ def run_studies(options: argparse.Namespace, work: Path) -> Section:
     )
 
 
+# Issue 19: the cache (docs/performance.md, "The cache").
+RECHECK_WORDS = 5000
+UNCHANGED_SECONDS = 0.5
+ONE_CHANGED_SECONDS = 1.0
+FOLDER_STUDIES = 200
+FOLDER_POOL = 40  # distinct lessons the 200 studies draw their four versions from
+FOLDER_WORDS = 1000
+FOLDER_MARGIN = 1.2
+FOLDER_SPEEDUP = 1.8
+
+
+def _empty_cache(_: int = 0) -> None:
+    shutil.rmtree(os.environ["MATCHECK_CACHE_DIR"], ignore_errors=True)
+
+
+def _study_file(study: Path, files: list[Path], title: str, name: str = "study.toml") -> Path:
+    lines = [f'[study]\ntitle = "{title}"\n']
+    for index, path in enumerate(files):
+        relative = Path(os.path.relpath(path, study)).as_posix()
+        lines.append(f'[[conditions]]\nname = "v{index}"\nfiles = ["{relative}"]\n')
+    target = study / name
+    target.write_text("\n".join(lines), encoding="utf-8")
+    return target
+
+
+def run_recheck(options: argparse.Namespace, work: Path) -> Section:
+    """One study of four ~5,000-word DOCX versions: cold, unchanged, and one file changed."""
+    study = work / "recheck"
+    files = [*write_pair(RECHECK_WORDS, "docx", study / "p0")]
+    files += [*write_pair(RECHECK_WORDS + 40, "docx", study / "p1")]
+    # An edit of the last version before each run (one sentence added, as in a pull request),
+    # a different one each time, so that every run misses on that file and only on it.
+    import docx
+
+    variants = []
+    for k in range(options.repeat):
+        edited = docx.Document(str(files[-1]))
+        edited.add_paragraph(f"Check the seal again after {k + 2} days of use.")
+        variants.append(work / "variants" / f"{k}.docx")
+        variants[-1].parent.mkdir(parents=True, exist_ok=True)
+        edited.save(str(variants[-1]))
+    target = _study_file(study, files, "Recheck")
+    command = [PYTHON, "-m", "matcheck", "check", str(target), "-f", "json", "-o"]
+    out = str(work / "recheck.json")
+    cold = measure([*command, out, "--no-cache"], options.repeat)
+    _empty_cache()
+    subprocess.run([*command, out], check=False, capture_output=True)  # fills the cache
+    warm = measure([*command, out], options.repeat)
+
+    def change_one(index: int) -> None:
+        shutil.copyfile(variants[index], files[-1])
+
+    changed = measure([*command, out], options.repeat, before=change_one)
+    report = json.loads(Path(out).read_text(encoding="utf-8"))
+    assert report["cache"] == {"files": 4, "from_cache": 3}, report["cache"]
+    runs = {"cold": cold, "unchanged": warm, "one_changed": changed}
+    return Section(
+        [{name: asdict(run) for name, run in runs.items()}],
+        [
+            f"check STUDY, 4 DOCX versions of ~{RECHECK_WORDS:,} words:",
+            *(
+                f"  {name}: {run.seconds:.2f} s wall, {run.cpu_seconds:.2f} s processor, "
+                f"{run.peak_mib:.0f} MiB"
+                for name, run in runs.items()
+            ),
+        ],
+        [
+            check(
+                warm.seconds < UNCHANGED_SECONDS,
+                f"unchanged study from the cache: {warm.seconds:.2f} s (< {UNCHANGED_SECONDS})",
+            ),
+            check(
+                changed.seconds < ONE_CHANGED_SECONDS,
+                f"one of four files changed: {changed.seconds:.2f} s (< {ONE_CHANGED_SECONDS})",
+            ),
+        ],
+    )
+
+
+def run_folder(options: argparse.Namespace, work: Path) -> Section:
+    """200 studies of four Markdown versions drawn from 40 lessons, 1 and 2 workers."""
+    folder = work / "folder"
+    pool: list[Path] = []
+    for index in range(FOLDER_POOL // 2):
+        pool += write_pair(FOLDER_WORDS + 20 * index, "md", folder / "lessons" / f"l{index:02d}")
+    for index in range(FOLDER_STUDIES):
+        # A shared control, and three others chosen by a fixed stride through the pool. The
+        # study files sit above the lessons: a study reads only files at or below its folder.
+        chosen = [pool[0], *(pool[1 + (index * 7 + k * 13) % (FOLDER_POOL - 1)] for k in range(3))]
+        _study_file(folder, chosen, f"Study {index}", f"study-{index:03d}.toml")
+    command = [PYTHON, "-m", "matcheck", "check", str(folder), "-f", "json", "-o"]
+    out = str(work / "folder.json")
+    cold_one = measure([*command, out, "--jobs", "1", "--no-cache"], options.repeat)
+    cold_two = measure([*command, out, "--jobs", "2", "--no-cache"], options.repeat)
+    empty_one = measure([*command, out, "--jobs", "1"], options.repeat, before=_empty_cache)
+    empty_two = measure([*command, out, "--jobs", "2"], options.repeat, before=_empty_cache)
+    warm_two = measure([*command, out, "--jobs", "2"], options.repeat)
+    runs = {
+        "no cache, 1 worker": cold_one,
+        "no cache, 2 workers": cold_two,
+        "empty cache, 1 worker": empty_one,
+        "empty cache, 2 workers": empty_two,
+        "full cache, 2 workers": warm_two,
+    }
+    bound = cold_one.seconds / 2
+    speedup = empty_one.seconds / empty_two.seconds
+    return Section(
+        [{name: asdict(run) for name, run in runs.items()}],
+        [
+            f"check DIR, {FOLDER_STUDIES} studies x 4 Markdown versions of ~{FOLDER_WORDS:,} "
+            f"words drawn from {FOLDER_POOL} lessons:",
+            *(
+                f"  {name}: {run.seconds:.2f} s wall, {run.cpu_seconds:.2f} s processor, "
+                f"{run.peak_mib:.0f} MiB (largest process)"
+                for name, run in runs.items()
+            ),
+        ],
+        [
+            check(
+                empty_two.seconds <= FOLDER_MARGIN * bound,
+                f"{FOLDER_STUDIES} studies, 2 workers, empty cache: {empty_two.seconds:.1f} s "
+                f"(<= {FOLDER_MARGIN} x cold total / 2 = {FOLDER_MARGIN * bound:.1f} s)",
+            ),
+            check(
+                speedup >= FOLDER_SPEEDUP,
+                f"{FOLDER_STUDIES} studies: 2 workers {speedup:.2f}x faster than 1, whole "
+                f"process, empty cache (>= {FOLDER_SPEEDUP})",
+            ),
+        ],
+    )
+
+
 # A new section is a function of (options, work) -> Section, and one entry here.
 SECTIONS: dict[str, Callable[[argparse.Namespace, Path], Section]] = {
     "pairs": run_pairs,
     "studies": run_studies,
     "help": run_help,
+    "recheck": run_recheck,
+    "folder": run_folder,
 }
 
 
@@ -304,6 +446,8 @@ def main(argv: list[str]) -> int:
     options = parse(argv)
     work = Path(tempfile.mkdtemp(prefix="matcheck-bench-"))
     print(f"lessons in {work}", file=sys.stderr)
+    # A cache of the benchmark's own, empty at the start: the user's is neither used nor filled.
+    os.environ["MATCHECK_CACHE_DIR"] = str(work / "cache")
     results: dict[str, Section] = {}
     try:
         for name in options.sections:

@@ -9,16 +9,22 @@ from collections.abc import Sequence
 from contextlib import AbstractContextManager
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from matcheck.compare.decide import unapplied
 from matcheck.errors import UsageError
-from matcheck.findings import Condition, Report
+from matcheck.findings import CacheUse, Condition, Report
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
 from matcheck.measures.base import Profile
 from matcheck.model import Document
 from matcheck.progress import SILENT, Steps
 from matcheck.settings import DEFAULT_COMPARISON, DEFAULT_WPM, ComparisonSettings, Settings
 from matcheck.study import Study
+
+if TYPE_CHECKING:
+    from matcheck.cache import Cache
+    from matcheck.compare.assessment import PostTest
+    from matcheck.findings import Finding
 
 
 @dataclass(frozen=True, slots=True)
@@ -46,16 +52,38 @@ def profile_document(document: Document, settings: Settings) -> Profile:
 
 
 def profile_files(
-    paths: Sequence[Path], settings: Settings, limits: ReadLimits = DEFAULT_LIMITS
+    paths: Sequence[Path],
+    settings: Settings,
+    limits: ReadLimits = DEFAULT_LIMITS,
+    cache: Cache | None = None,
 ) -> list[Profile]:
-    from matcheck.readers import read
     from matcheck.readers.deadline import deadline
 
     profiles = []
     for path in paths:
         with deadline(limits.max_read_seconds, str(path), "reading and measuring the lesson"):
-            profiles.append(profile_document(read(path, limits), settings))
+            profiles.append(measure_version(Version(str(path), (path,)), settings, limits, cache))
     return profiles
+
+
+def measure_version(
+    version: Version, settings: Settings, limits: ReadLimits, cache: Cache | None = None
+) -> Profile:
+    """Read and measure a version, or take its profile from ``cache`` (docs/performance.md)."""
+    if cache is None:
+        return profile_document(read_version(version, limits), settings)
+
+    def compute() -> tuple[Profile, list[Document]]:
+        from matcheck.readers import read
+        from matcheck.readers.join import join_documents
+
+        parts = [read(path, limits) for path in version.paths]
+        document = parts[0] if len(parts) == 1 else join_documents(parts)
+        return profile_document(document, settings), parts
+
+    from matcheck.cache import fingerprint
+
+    return cache.version(version.paths, fingerprint(settings, limits), compute)
 
 
 def version_names(paths: Sequence[Path], names: Sequence[str] | None) -> list[str]:
@@ -91,6 +119,7 @@ def _measure_versions(
     settings: Settings,
     limits: ReadLimits,
     steps: Steps = SILENT,
+    cache: Cache | None = None,
 ) -> tuple[dict[str, Profile], list[Condition]]:
     """Read and measure each version once; the conditions as the report names them."""
     profiles: dict[str, Profile] = {}
@@ -102,8 +131,8 @@ def _measure_versions(
         # One time budget covers reading, analysing and measuring the lesson (docs/limits.md).
         shown = ", ".join(str(path) for path in version.paths)
         with deadline(limits.max_read_seconds, shown, "reading and measuring the lesson"):
-            document = read_version(version, limits)
-            profiles[version.name] = profile_document(document, settings)
+            profiles[version.name] = measure_version(version, settings, limits, cache)
+        document = profiles[version.name].document
         conditions.append(
             Condition(
                 name=version.name,
@@ -127,6 +156,7 @@ def compare_versions(
     limits: ReadLimits = DEFAULT_LIMITS,
     comparison: ComparisonSettings = DEFAULT_COMPARISON,
     steps: Steps = SILENT,
+    cache: Cache | None = None,
 ) -> Report:
     """Compare every version with the reference (the first unless named); ``steps`` hears
     of each version read and of the comparison (``len(versions) + 1`` steps)."""
@@ -146,7 +176,10 @@ def compare_versions(
     # Validate options before the (slower) reading.
     expand_manipulated(manipulated)
     tolerances = parse_tolerances(tolerance_overrides)
-    profiles, conditions = _measure_versions(versions, reference, settings, limits, steps)
+    counted = _Counted(cache)
+    profiles, conditions = _measure_versions(
+        versions, reference, settings, limits, steps, cache=cache
+    )
     steps.step("comparing")
     with _comparing(limits):
         findings, spreads = compare_profiles(
@@ -161,7 +194,22 @@ def compare_versions(
         words_per_minute=settings.words_per_minute,
         settings=comparison,
         warnings=tuple(unapplied(findings)),
+        cache=counted.use(),
     )
+
+
+class _Counted:
+    """The cache's counts over one report's reading."""
+
+    def __init__(self, cache: Cache | None) -> None:
+        self.cache = cache
+        self.start = (cache.hits, cache.misses) if cache else (0, 0)
+
+    def use(self) -> CacheUse | None:
+        if self.cache is None:
+            return None
+        hits = self.cache.hits - self.start[0]
+        return CacheUse(hits + self.cache.misses - self.start[1], hits)
 
 
 def _study_settings(study: Study) -> Settings:
@@ -179,16 +227,46 @@ def check_study(
     limits: ReadLimits = DEFAULT_LIMITS,
     extra_tolerances: Sequence[str] = (),
     steps: Steps = SILENT,
+    cache: Cache | None = None,
 ) -> Report:
     """Compare a study's conditions as its design requires (see :func:`study.comparisons`);
     ``steps`` hears of each condition read and of the comparison (one step more than the
-    conditions)."""
+    conditions). With ``cache``, an unchanged study's report comes from it whole."""
+    from dataclasses import replace
+
     settings = settings or _study_settings(study)
-    profiles, conditions = _measure_versions(
-        _study_versions(study), study.reference, settings, limits, steps
-    )
-    steps.step("comparing")
-    return _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
+
+    def compute() -> Report:
+        counted = _Counted(cache)
+        profiles, conditions = _measure_versions(
+            _study_versions(study), study.reference, settings, limits, steps, cache=cache
+        )
+        steps.step("comparing")
+        report = _study_report(
+            study, profiles, conditions, settings, extra_tolerances, limits, cache
+        )
+        return replace(report, cache=counted.use())
+
+    if cache is None:
+        return compute()
+    from matcheck.cache import fingerprint
+
+    lessons = [path for condition in study.conditions for path in condition.files]
+    parameters = {**fingerprint(settings, limits), "tolerances": list(extra_tolerances)}
+    return cache.report(_study_inputs(study), lessons, parameters, compute)
+
+
+def _study_inputs(study: Study) -> list[Path]:
+    """Every file a study's report depends on: the study file, lessons, post-test, data."""
+    from dataclasses import fields
+
+    inputs = [study.path, *(p for c in study.conditions for p in c.files), *study.posttest]
+    if study.data is not None:
+        for item in fields(study.data):
+            value = getattr(study.data, item.name)
+            values = value if isinstance(value, tuple) else (value,)
+            inputs += [v for v in values if isinstance(v, Path)]
+    return inputs
 
 
 def _study_report(
@@ -198,6 +276,7 @@ def _study_report(
     settings: Settings,
     extra_tolerances: Sequence[str],
     limits: ReadLimits,
+    cache: Cache | None = None,
 ) -> Report:
     """The study's report from its measured conditions."""
     from matcheck.compare.engine import compare_pairs
@@ -216,14 +295,10 @@ def _study_report(
         )
     warnings: tuple[str, ...] = ()
     if study.posttest:
-        from matcheck.compare.assessment import PostTest, assess_posttest
-        from matcheck.language.analysis import analyze
-        from matcheck.readers.posttest import items_document, read_posttest
+        from matcheck.compare.assessment import assess_posttest
 
-        items = tuple(item for path in study.posttest for item in read_posttest(path, limits))
-        document, slots = items_document(items)
         extra, warnings = assess_posttest(
-            PostTest(items, analyze(document), slots),
+            _posttest(study.posttest, limits, cache),
             {name: profile.analysis for name, profile in profiles.items()},
             [(p.reference, p.condition) for p in pairs],
             threshold=study.comparison.coverage_threshold,
@@ -244,9 +319,7 @@ def _study_report(
         )
         findings = (*findings, *extra)
     if study.sample is not None:
-        from matcheck.power.study_plan import design_findings
-
-        findings = (*findings, *design_findings(study, study.sample))
+        findings = (*findings, *_design_findings(study, cache))
     if study.accepted:
         from matcheck.compare.accept import ComparedPair, apply_accepted, restate_spreads
 
@@ -270,12 +343,47 @@ def _study_report(
     )
 
 
+def _posttest(paths: Sequence[Path], limits: ReadLimits, cache: Cache | None) -> PostTest:
+    """The post-test's items and their language analysis, from ``cache`` when it has them."""
+    from matcheck.compare.assessment import PostTest
+
+    def compute() -> PostTest:
+        from matcheck.language.analysis import analyze
+        from matcheck.readers.posttest import items_document, read_posttest
+
+        items = tuple(item for path in paths for item in read_posttest(path, limits))
+        document, slots = items_document(items)
+        return PostTest(items, analyze(document), slots)
+
+    if cache is None:
+        return compute()
+    from matcheck.cache import fingerprint
+
+    return cache.value("posttest", paths, fingerprint(Settings(), limits)["limits"], compute)
+
+
+def _design_findings(study: Study, cache: Cache | None) -> tuple[Finding, ...]:
+    """The planned sample's findings; they depend on the study file alone, so the cache keeps
+    them (the power solvers import statsmodels, ~1 s, for a few milliseconds of work)."""
+
+    def compute() -> tuple[Finding, ...]:
+        from matcheck.power.study_plan import design_findings
+
+        assert study.sample is not None
+        return tuple(design_findings(study, study.sample))
+
+    if cache is None:
+        return compute()
+    return cache.value("design", [study.path], {}, compute)
+
+
 def check_against(
     study_path: Path,
     revision: str,
     *,
     limits: ReadLimits = DEFAULT_LIMITS,
     extra_tolerances: Sequence[str] = (),
+    cache: Cache | None = None,
 ) -> Report:
     """Check a study now, and report what changed since ``revision`` and what it broke.
 
@@ -294,19 +402,20 @@ def check_against(
 
     study = load_study(study_path, allow_outside=limits.allow_outside_files)
     settings = _study_settings(study)
+    counted = _Counted(cache)
     profiles, conditions = _measure_versions(
-        _study_versions(study), study.reference, settings, limits
+        _study_versions(study), study.reference, settings, limits, cache=cache
     )
-    now = _study_report(study, profiles, conditions, settings, extra_tolerances, limits)
+    now = _study_report(study, profiles, conditions, settings, extra_tolerances, limits, cache)
     with tempfile.TemporaryDirectory(prefix="matcheck-rev-") as folder:
         # The learners' data belong to now, not to the materials' past revision.
         old_study = load_study_at(study_path, revision, Path(folder), limits)
         old_settings = _study_settings(old_study)
         old_profiles, old_conditions = _measure_versions(
-            _study_versions(old_study), old_study.reference, old_settings, limits
+            _study_versions(old_study), old_study.reference, old_settings, limits, cache=cache
         )
         before = _study_report(
-            old_study, old_profiles, old_conditions, old_settings, extra_tolerances, limits
+            old_study, old_profiles, old_conditions, old_settings, extra_tolerances, limits, cache
         )
     summaries: list[Regression] = []
     both: dict[str, Profile] = dict(profiles)
@@ -357,4 +466,5 @@ def check_against(
         changes=tuple(changes),
         regressions=(*summaries, *regressions),
         preexisting=preexisting(before.findings, now.findings),
+        cache=counted.use(),
     )

@@ -13,10 +13,14 @@ import os
 from collections.abc import Sequence
 from concurrent.futures import as_completed
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from matcheck.errors import MatcheckError, UsageError
 from matcheck.findings import StudyResult
 from matcheck.limits import DEFAULT_LIMITS, ReadLimits
+
+if TYPE_CHECKING:
+    from matcheck.cache import Cache
 
 SKIPPED_FOLDERS = {".git", ".venv", "venv", "node_modules", "__pycache__", ".tox", "build", "dist"}
 
@@ -66,6 +70,7 @@ def check_one(
     against: str | None,
     tolerances: Sequence[str],
     limits: ReadLimits = DEFAULT_LIMITS,
+    cache: Cache | None = None,
 ) -> StudyResult:
     """Check one study; the project's own errors become a one-line result, not an exception."""
     from matcheck.api import check_against, check_study
@@ -73,29 +78,51 @@ def check_one(
 
     try:
         if against:
-            report = check_against(path, against, extra_tolerances=tolerances, limits=limits)
+            report = check_against(
+                path, against, extra_tolerances=tolerances, limits=limits, cache=cache
+            )
         else:
             study = load_study(path, allow_outside=limits.allow_outside_files)
-            report = check_study(study, extra_tolerances=tolerances, limits=limits)
+            report = check_study(study, extra_tolerances=tolerances, limits=limits, cache=cache)
     except MatcheckError as problem:
         return StudyResult(str(path), None, str(problem))
     return StudyResult(str(path), report, None)
 
 
 def _check_in_worker(
-    path: Path, against: str | None, tolerances: Sequence[str], limits: ReadLimits
+    path: Path,
+    against: str | None,
+    tolerances: Sequence[str],
+    limits: ReadLimits,
+    cache: Cache | None = None,
 ) -> tuple[StudyResult, tuple[Path, ...]]:
     """:func:`check_one` in a worker process, with every file the worker has read (so the
     parent can refuse them as outputs; matcheck.inputs)."""
     from matcheck.inputs import read_so_far
 
-    return check_one(path, against, tolerances, limits), read_so_far()
+    return check_one(path, against, tolerances, limits, cache), read_so_far()
+
+
+def check_remote(
+    path: Path,
+    *,
+    against: str | None,
+    tolerances: Sequence[str],
+    limits: ReadLimits,
+    use_cache: bool,
+) -> tuple[StudyResult, tuple[Path, ...]]:
+    """:func:`_check_in_worker` on a cluster's worker, with the cache folder of the worker's
+    machine."""
+    from matcheck.cache import Cache
+
+    cache = Cache.default() if use_cache else None
+    return _check_in_worker(path, against, tolerances, limits, cache)
 
 
 def warm_up() -> None:
     """Import and load what every check needs (pipeline, lemma and syllable tables, ...)."""
+    import scipy.sparse
     import scipy.special  # noqa: F401
-    import sklearn.feature_extraction.text  # noqa: F401
 
     from matcheck.language.pipeline import lemma, nlp, stop_words
     from matcheck.language.syllables import count_syllables
@@ -116,13 +143,33 @@ def check_all(
     tolerances: Sequence[str] = (),
     progress: bool = False,
     limits: ReadLimits = DEFAULT_LIMITS,
+    cache: Cache | None = None,
+    scheduler: str | None = None,
 ) -> list[StudyResult]:
-    """Check studies with ``jobs`` worker processes (1: in this process); keeps path order."""
+    """Check studies with ``jobs`` worker processes (1: in this process), or on the Dask
+    cluster at ``scheduler``; keeps path order."""
+    if scheduler:
+        from functools import partial
+
+        from matcheck.cluster import check_on_cluster
+        from matcheck.inputs import note_all
+
+        remote = partial(
+            check_remote,
+            against=against,
+            tolerances=tuple(tolerances),
+            limits=limits,
+            use_cache=cache is not None,
+        )
+        gathered = check_on_cluster(paths, scheduler, remote)
+        for _, read in gathered:
+            note_all(read)
+        return [result for result, _ in gathered]
     workers = jobs if jobs is not None else (os.cpu_count() or 1)
     if workers < 1:
         raise UsageError(f"--jobs must be at least 1, got {workers}")
     if workers == 1 or len(paths) == 1:
-        return [check_one(path, against, tolerances, limits) for path in paths]
+        return [check_one(path, against, tolerances, limits, cache) for path in paths]
     results: dict[str, StudyResult] = {}
     import multiprocessing
 
@@ -136,8 +183,14 @@ def check_all(
     from matcheck.workers import worker_pool
 
     with worker_pool(min(workers, len(paths)), context) as pool:
+        if cache is not None:
+            from matcheck.shared import read_shared
+
+            # Each distinct lesson file once, into the cache the studies then read from.
+            cache.fresh.update(read_shared(pool, paths, limits, cache))
         futures = [
-            pool.submit(_check_in_worker, path, against, tolerances, limits) for path in paths
+            pool.submit(_check_in_worker, path, against, tolerances, limits, cache)
+            for path in paths
         ]
         if progress:
             from rich.progress import Progress
@@ -165,12 +218,21 @@ def check_folder(
     tolerances: Sequence[str],
     limits: ReadLimits = DEFAULT_LIMITS,
     progress: bool = False,
+    cache: Cache | None = None,
+    scheduler: str | None = None,
 ) -> tuple[list[Path], list[StudyResult]]:
     """The study files below ``folder`` and the result of checking each."""
     paths = find_studies(folder, allow_outside=limits.allow_outside_files)
     if not paths:
         raise UsageError(f"{folder}: no study files (TOML with [[conditions]]) below this folder")
     results = check_all(
-        paths, jobs=jobs, against=against, tolerances=tolerances, progress=progress, limits=limits
+        paths,
+        jobs=jobs,
+        against=against,
+        tolerances=tolerances,
+        progress=progress,
+        limits=limits,
+        cache=cache,
+        scheduler=scheduler,
     )
     return paths, results

@@ -33,6 +33,7 @@ from matcheck.report.registry import get, names, render_text
 if TYPE_CHECKING:
     import click
 
+    from matcheck.cache import Cache
     from matcheck.findings import Report
     from matcheck.limits import ReadLimits
 
@@ -91,6 +92,14 @@ Output = Annotated[
 ]
 
 
+NoCache = Annotated[
+    bool,
+    typer.Option(
+        "--no-cache", help="Read and measure every file again; neither use nor fill the cache."
+    ),
+]
+
+
 @app.command()
 def profile(
     files: Files,
@@ -101,13 +110,16 @@ def profile(
     output: Output = None,
     allow_outside: AllowOutside = False,
     limit: Limits = None,
+    no_cache: NoCache = False,
 ) -> int:
     """Measure each lesson file on every dimension."""
     from matcheck.api import profile_files
     from matcheck.settings import Settings
 
     formatter = get(Subject.PROFILES, format)
-    profiles = profile_files(files, Settings(words_per_minute=wpm), _limits(allow_outside, limit))
+    profiles = profile_files(
+        files, Settings(words_per_minute=wpm), _limits(allow_outside, limit), _cache(no_cache)
+    )
     deliver(formatter, profiles, output, files)
     return EXIT_MATCHED
 
@@ -141,6 +153,7 @@ def compare(
     output: Output = None,
     allow_outside: AllowOutside = False,
     limit: Limits = None,
+    no_cache: NoCache = False,
 ) -> int:
     """Compare lesson versions; report every difference beyond the declared manipulation."""
     from matcheck.api import Version, compare_versions, version_names
@@ -161,6 +174,7 @@ def compare(
             settings=Settings(words_per_minute=wpm),
             limits=_limits(allow_outside, limit),
             steps=steps,
+            cache=_cache(no_cache),
         )
     deliver_all(targets, report, files)
     return exit_status([report])
@@ -184,6 +198,13 @@ def check(
         int | None,
         typer.Option("--jobs", "-j", help="Studies checked at once (default: all cores)."),
     ] = None,
+    scheduler: Annotated[
+        str | None,
+        typer.Option(
+            "--scheduler",
+            help="Check a folder's studies on this Dask cluster (tcp://HOST:PORT; matcheck[dask]).",
+        ),
+    ] = None,
     format: Annotated[
         list[str] | None, typer.Option("--format", "-f", help=_formats(Subject.REPORT))
     ] = None,
@@ -193,11 +214,13 @@ def check(
     ] = False,
     allow_outside: AllowOutside = False,
     limit: Limits = None,
+    no_cache: NoCache = False,
 ) -> int:
     """Check a study (or every study below a folder) as its design requires."""
     from matcheck.study import load_study
 
     limits = _limits(allow_outside, limit)
+    cache = _cache(no_cache)
     options = RenderOptions(show_matched=all_rows)
     if study.is_dir():
         from matcheck.batch import check_folder
@@ -210,24 +233,30 @@ def check(
             tolerances=tolerance or (),
             limits=limits,
             progress=sys.stderr.isatty(),
+            cache=cache,
+            scheduler=scheduler,
         )
         reports = [r.report for r in results if r.report is not None]
         deliver_all(targets, results, paths, options)
         _step_summary([f for f, _ in targets], reports, paths)
         return exit_status(reports, failed=sum(1 for r in results if r.error))
+    if scheduler:
+        raise UsageError("--scheduler runs the studies of a folder: give a folder, not a file")
     targets = _targets(Subject.REPORT, format, "table", output)
     loaded = load_study(study, allow_outside=allow_outside)
     if against:
         from matcheck.api import check_against
 
-        report = check_against(study, against, extra_tolerances=tolerance or (), limits=limits)
+        report = check_against(
+            study, against, extra_tolerances=tolerance or (), limits=limits, cache=cache
+        )
     else:
         from matcheck.api import check_study
         from matcheck.progress import terminal_steps
 
         with terminal_steps(len(loaded.conditions) + 1, "Checking") as steps:
             report = check_study(
-                loaded, extra_tolerances=tolerance or (), limits=limits, steps=steps
+                loaded, extra_tolerances=tolerance or (), limits=limits, steps=steps, cache=cache
             )
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
     deliver_all(targets, report, inputs, options)
@@ -243,6 +272,7 @@ def table(
     ] = None,
     output: Output = None,
     allow_outside: AllowOutside = False,
+    no_cache: NoCache = False,
 ) -> int:
     """Write the equivalence table for the methods section (one column per condition)."""
     from matcheck.api import check_study
@@ -260,7 +290,9 @@ def table(
 
     loaded = load_study(study, allow_outside=allow_outside)
     with terminal_steps(len(loaded.conditions) + 1, "Checking") as steps:
-        report = check_study(loaded, limits=_limits(allow_outside, None), steps=steps)
+        report = check_study(
+            loaded, limits=_limits(allow_outside, None), steps=steps, cache=_cache(no_cache)
+        )
     built = methods_table(report, coverage_threshold=loaded.coverage_threshold)
     inputs = [study, *(f for c in loaded.conditions for f in c.files), *loaded.posttest]
     deliver_all(targets, built, inputs)
@@ -461,6 +493,12 @@ def _limits(allow_outside: bool, overrides: list[str] | None) -> ReadLimits:
 
 
 _FORMAT_SUFFIXES = {".json", ".md", ".csv", ".tex", ".docx", ".html"}
+
+
+def _cache(no_cache: bool) -> Cache | None:
+    from matcheck.cache import Cache
+
+    return None if no_cache else Cache.default()
 
 
 def _formats(subject: Subject) -> str:

@@ -312,6 +312,14 @@ class Regression:
 
 
 @dataclass(frozen=True, slots=True)
+class CacheUse:
+    """The lesson files a report measured, and how many of them came from the cache."""
+
+    files: int
+    from_cache: int
+
+
+@dataclass(frozen=True, slots=True)
 class Report:
     conditions: tuple[Condition, ...]
     reference: str
@@ -335,6 +343,8 @@ class Report:
     settings: ComparisonSettings = DEFAULT_COMPARISON
     # Aggregates of the learners' data ([data] in the study file), for the reports.
     data: StudyData | None = None
+    # Lesson files read and how many came from the cache; None when the cache is off.
+    cache: CacheUse | None = None
 
     def pairs(self) -> tuple[Pairing, ...]:
         """The comparisons in order (every condition against the reference by default)."""

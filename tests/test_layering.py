@@ -32,6 +32,10 @@ FORBIDDEN = {
     "result": {"readers", "language", "compare", "api", "cli", "batch", "library"},
     "progress": {"readers", "language", "measures", "compare", "report", "api", "cli", "batch"},
     "output_names": {"readers", "language", "measures", "compare", "api", "cli", "batch"},
+    # The cache stores what api computes and knows nothing of how (measures: type hints only).
+    "cache": {"readers", "language", "compare", "report", "api", "cli", "batch", "study"},
+    "shared": {"report", "cli", "batch"},
+    "cluster": {"readers", "language", "measures", "compare", "report", "api", "cli", "batch"},
     "power": {
         "readers",
         "language",

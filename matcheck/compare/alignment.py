@@ -432,7 +432,8 @@ def _find_moved(
 ) -> tuple[list[Pair], list[int], list[int]]:
     """Pair leftovers of A and B that are strongly alike: the passage moved."""
     import numpy as np
-    from sklearn.preprocessing import normalize
+
+    from matcheck.measures.tfidf import l2_normalize as normalize
 
     if not removed or not added:
         return [], removed, added

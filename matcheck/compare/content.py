@@ -137,7 +137,7 @@ def build_model(analyses: dict[str, Analysis]) -> ContentModel:
         versions[name] = VersionText(name, units, range(start, len(term_lists)))
     if not any(term_lists):
         term_lists = [["\u2400"]] * max(1, len(term_lists))  # an empty vocabulary breaks TF-IDF
-    from sklearn.preprocessing import normalize
+    from matcheck.measures.tfidf import l2_normalize as normalize
 
     raw, vocabulary = fit_tfidf(term_lists, normalized=False)
     return ContentModel(versions, raw, normalize(raw).tocsr(), vocabulary)

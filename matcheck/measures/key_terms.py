@@ -2,7 +2,8 @@
 
 Terms are lemmatised content words (spaCy stop words removed) and the bigrams of adjacent
 content words within a sentence. Each passage (a prose block, or a whole table) is one document of
-the TF-IDF model (scikit-learn's ``TfidfVectorizer``: smoothed idf, l2-normalised rows); a
+the TF-IDF model (computed as scikit-learn's ``TfidfVectorizer`` does, by
+:mod:`matcheck.measures.tfidf`: smoothed idf, l2-normalised rows); a
 term's weight in a version is the sum of its tf-idf over the version's passages, so a term
 that recurs across passages weighs more than one mentioned once.
 """
@@ -107,17 +108,9 @@ def fit_tfidf(
     ``normalized=False`` keeps raw tf-idf rows, so that the vector of two passages together
     is the sum of their rows (the passage alignment needs that).
     """
-    from sklearn.feature_extraction.text import TfidfVectorizer
+    from matcheck.measures.tfidf import fit
 
-    vectorizer = TfidfVectorizer(
-        analyzer=_identity, lowercase=False, norm="l2" if normalized else None
-    )
-    matrix = vectorizer.fit_transform(term_lists)
-    return matrix.tocsr(), [str(term) for term in vectorizer.get_feature_names_out()]
-
-
-def _identity(terms: list[str]) -> list[str]:
-    return terms
+    return fit(term_lists, normalized=normalized)
 
 
 def term_weights(

@@ -150,6 +150,17 @@ def review_split(report: Report) -> tuple[list[Finding], list[Finding]]:
     return new, [f for f in roots if not is_new(report, f)]
 
 
+def describe_cache(report: Report) -> str | None:
+    """How many lesson files came from the cache (``None`` when the cache was off)."""
+    if report.cache is None:
+        return None
+    files, cached = report.cache.files, report.cache.from_cache
+    return (
+        f"{cached} of {files} lesson file{'s' if files != 1 else ''} from the cache "
+        "(unchanged since an earlier run; --no-cache reads every file again)."
+    )
+
+
 def describe_regression(regression: Regression) -> str:
     """One sentence for what a pull request changed or broke since its base revision."""
     name, revision = regression.condition, regression.revision

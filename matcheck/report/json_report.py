@@ -147,6 +147,11 @@ def report_dict(report: Report) -> dict[str, Any]:
         "regressions": [describe_regression(r) for r in report.regressions],
         "notes": list(report.notes),
         **({"study_data": _study_data(report)} if report.data is not None else {}),
+        **(
+            {"cache": {"files": report.cache.files, "from_cache": report.cache.from_cache}}
+            if report.cache is not None
+            else {}
+        ),
     }
 
 

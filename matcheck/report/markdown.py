@@ -9,6 +9,7 @@ from matcheck.identity import finding_id
 from matcheck.report.common import (
     counts_sentence,
     describe_acceptance,
+    describe_cache,
     describe_evidence,
     describe_regression,
     format_difference,
@@ -179,4 +180,7 @@ def render_markdown(report: Report, options: RenderOptions | None = None) -> str
         for warning in condition.warnings:
             lines.append(f"> ⚠️ {_code(condition.name)}: {_cell(warning)}")
     lines += ["", f"_{report.notes[0]}_" if report.notes else ""]
+    cached = describe_cache(report)
+    if cached:
+        lines += ["", f"_{cached}_"]
     return "\n".join(lines).rstrip() + "\n"

@@ -102,3 +102,11 @@ def render_summary(
         f"{len(results)} studies: {failing} with possible confounds, {errors} unreadable. "
         "Run `matcheck check STUDY.toml` on one for its located findings."
     )
+    used = [r.report.cache for r in results if r.report is not None and r.report.cache]
+    if used:
+        files, cached = sum(u.files for u in used), sum(u.from_cache for u in used)
+        console.print(
+            f"[dim]{cached} of {files} lesson files from the cache; a file several studies "
+            "share was read once.[/dim]",
+            highlight=False,
+        )

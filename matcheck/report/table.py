@@ -12,6 +12,7 @@ from matcheck.report.columns import column_layout
 from matcheck.report.common import (
     counts_sentence,
     describe_acceptance,
+    describe_cache,
     describe_evidence,
     describe_regression,
     format_difference,
@@ -216,6 +217,9 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
     )
     for note in report.notes:
         console.print(f"[dim]{note}[/dim]")
+    cached = describe_cache(report)
+    if cached:
+        console.print(f"[dim]{cached}[/dim]", highlight=False)
 
 
 def _render_design(report: Report, console: Console) -> None:
