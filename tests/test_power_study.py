@@ -92,6 +92,33 @@ def test_two_groups_power_matches_statsmodels(tmp_path: Path) -> None:
     assert report.differs
 
 
+def test_power_curve_rises_through_the_planned_and_needed_samples(tmp_path: Path) -> None:
+    report = _report(_study(tmp_path, TWO_GROUPS, "per_condition = 40\nsmallest_effect = 0.5"))
+    (finding,) = [f for f in report.findings if f.group == "design"]
+    curve = sorted(
+        (int(key.removeprefix("power_at_")), value)
+        for key, value in finding.values.items()
+        if key.startswith("power_at_") and value is not None
+    )
+    assert len(curve) >= 12
+    powers = [p for _, p in curve]
+    assert powers == sorted(powers)  # power never falls as the sample grows
+    at = dict(curve)
+    # The curve passes through the finding's own numbers: statsmodels at 40 and at 64
+    # (Cohen's table for d = 0.5: 64 per group for power .80; references §6).
+    assert at[40] == pytest.approx(TTestIndPower().power(effect_size=0.5, nobs1=40, alpha=0.05))
+    assert at[64] >= 0.80 > at[40]
+
+
+def test_the_html_report_draws_the_power_curve(tmp_path: Path) -> None:
+    from matcheck.report.html import render_html
+
+    report = _report(_study(tmp_path, TWO_GROUPS, "per_condition = 40\nsmallest_effect = 0.5"))
+    page = render_html(report)
+    assert page.count('<polyline class="curve"') == 1  # one contrast
+    assert "Power by sample" in page
+
+
 def test_enough_learners_is_matched(tmp_path: Path) -> None:
     report = _report(_study(tmp_path, TWO_GROUPS, "per_condition = 64\nsmallest_effect = 0.5"))
     (finding,) = [f for f in report.findings if f.group == "design"]

@@ -281,6 +281,8 @@ def _finding(design: Design, term: Term, result: Assessment, measure: Measure) -
         "pretest_correlation": design.pretest_r,
         "icc": design.icc,
         "class_size": None if design.class_size is None else float(design.class_size),
+        # The power curve: power at a range of samples per condition, for charts.
+        **power_curve(design, term, has.effect.native(design), planned, needed),
     }
     return Finding(
         dimension=f"power:{term.name}",
@@ -295,3 +297,21 @@ def _finding(design: Design, term: Term, result: Assessment, measure: Measure) -
         reason=reason,
         basis=Basis.POWER,
     )
+
+
+CURVE_POINTS = 12
+CURVE_PREFIX = "power_at_"
+
+
+def power_curve(
+    design: Design, term: Term, effect: float, planned: float | None, needed: float | None
+) -> dict[str, float | None]:
+    """Power at CURVE_POINTS samples per condition, from the design's minimum to about twice
+    the larger of the planned and needed samples; keys ``power_at_<units>``."""
+    from matcheck.power.solve import power, units_minimum
+
+    low = units_minimum(design)
+    high = max(low + CURVE_POINTS, 2 * int(max(planned or 0, needed or 0)))
+    step = max(1, round((high - low) / (CURVE_POINTS - 1)))
+    units = sorted({*range(low, high + 1, step), *(int(x) for x in (planned, needed) if x)})
+    return {f"{CURVE_PREFIX}{n}": power(design, term, effect, n) for n in units}

@@ -12,7 +12,7 @@ from collections.abc import Callable, Sequence
 from html import escape
 
 from matcheck.findings import Finding, Group, Report
-from matcheck.report.svg import ChartRow, Zone, dot_chart, mark
+from matcheck.report.svg import ChartRow, Curve, Zone, curve_chart, dot_chart, mark
 
 BASELINE_PREFIX = "baseline:"
 ADJUST_FILL = "#efefef"
@@ -86,8 +86,38 @@ def design_section(report: Report, section_id: str, row_start: Callable[[Finding
     parts.append(
         f'<figure class="chart-box">{dot_chart(title, rows, section_id + "-chart")}</figure>'
     )
+    curves = [
+        Curve(
+            finding.dimension.removeprefix("power:"),
+            finding.status,
+            _curve(finding),
+            _sample(finding, "planned"),
+        )
+        for finding in findings
+    ]
+    if any(curve.points for curve in curves):
+        target = next((f.values.get("target_power") for f in findings), None) or 0.8
+        chart = curve_chart(
+            "Power by sample (mark: the planned sample)",
+            curves,
+            section_id + "-curve",
+            target=target,
+            x_label=f"{unit} per condition",
+        )
+        parts.append(f'<figure class="chart-box">{chart}</figure>')
     parts.append("</section>")
     return "".join(parts)
+
+
+def _curve(finding: Finding) -> tuple[tuple[float, float], ...]:
+    """The power curve the design finding carries (``power_at_<units>`` values)."""
+    prefix = "power_at_"
+    points = [
+        (float(key.removeprefix(prefix)), value)
+        for key, value in finding.values.items()
+        if key.startswith(prefix) and value is not None
+    ]
+    return tuple(sorted(points))
 
 
 def _sample(finding: Finding, which: str) -> float | None:

@@ -9,6 +9,7 @@ greyscale and without colour vision; the colour only repeats what the shape says
 
 from __future__ import annotations
 
+import itertools
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
@@ -215,3 +216,89 @@ def _tick_text(value: float) -> str:
 
 def _clip(text: str, width: int) -> str:
     return text if len(text) <= width else text[: width - 1] + "…"
+
+
+@dataclass(frozen=True, slots=True)
+class Curve:
+    """One line of a curve chart: its label, the verdict of its mark, its points, and the
+    point to mark on it (the planned sample)."""
+
+    label: str
+    status: Status | None
+    points: tuple[tuple[float, float], ...]
+    marked: float | None = None
+
+
+CURVE_DASHES = ("", "6 3", "2 3", "8 3 2 3", "1 2")
+
+
+def curve_chart(
+    title: str, curves: Sequence[Curve], chart_id: str, *, target: float, x_label: str
+) -> str:
+    """Power (0–1) against the sample per condition: one line per contrast, told apart by its
+    dash pattern and its label at the line's end (never by colour alone), the target power as
+    a dashed rule, and the planned sample as the mark of the contrast's verdict."""
+    xs = [x for curve in curves for x, _ in curve.points]
+    low, high = (min(xs), max(xs)) if xs else (0.0, 1.0)
+    high = high if high > low else low + 1
+    left, right, top, bottom = 48.0, WIDTH - TEXT_W, 30.0, 210.0
+
+    def px(value: float) -> float:
+        return left + (value - low) / (high - low) * (right - left)
+
+    def py(value: float) -> float:
+        return bottom - value * (bottom - top)
+
+    height = int(bottom) + 34
+    parts = [
+        f'<svg class="chart" id="{escape(chart_id)}" role="img" width="{WIDTH}" '
+        f'height="{height}" viewBox="0 0 {WIDTH} {height}">',
+        f"<title>{escape(title)}</title>",
+        f'<text x="0" y="16" class="chart-title">{escape(title)}</text>',
+        f'<line x1="{left}" x2="{right}" y1="{bottom}" y2="{bottom}" stroke="#555"/>',
+        f'<line x1="{left}" x2="{left}" y1="{top}" y2="{bottom}" stroke="#555"/>',
+        f'<line class="target" x1="{left}" x2="{right}" y1="{py(target):.1f}" '
+        f'y2="{py(target):.1f}" stroke="{BAND_EDGE}" stroke-dasharray="4 3"/>',
+        f'<text x="{left + 4}" y="{py(target) - 4:.1f}" class="tick">target {target:g}</text>',
+    ]
+    for tick in (0.0, 0.25, 0.5, 0.75, 1.0):
+        parts.append(
+            f'<text x="{left - 6}" y="{py(tick) + 4:.1f}" text-anchor="end" class="tick">'
+            f"{tick:g}</text>"
+        )
+    for tick in _ticks(low, high):
+        if low <= tick <= high:
+            parts.append(
+                f'<text x="{px(tick):.1f}" y="{bottom + 16}" text-anchor="middle" '
+                f'class="tick">{_tick_text(tick)}</text>'
+            )
+    parts.append(
+        f'<text x="{(left + right) / 2:.1f}" y="{bottom + 30}" text-anchor="middle" '
+        f'class="tick">{escape(x_label)}</text>'
+    )
+    for index, curve in enumerate(curves):
+        if not curve.points:
+            continue
+        path = " ".join(f"{px(x):.1f},{py(y):.1f}" for x, y in curve.points)
+        dash = CURVE_DASHES[index % len(CURVE_DASHES)]
+        parts.append(
+            f'<polyline class="curve" points="{path}" fill="none" stroke="{REFERENCE_COLOUR}" '
+            f'stroke-width="1.6"' + (f' stroke-dasharray="{dash}"' if dash else "") + "/>"
+        )
+        end_x, end_y = curve.points[-1]
+        parts.append(
+            f'<text x="{px(end_x) + 6:.1f}" y="{py(end_y) + 4:.1f}" class="row-value">'
+            f"{escape(_clip(curve.label, 24))}</text>"
+        )
+        if curve.marked is not None:
+            power_there = _interpolate(curve.points, curve.marked)
+            parts.append(shape(curve.status, px(curve.marked), py(power_there)))
+    parts.append("</svg>")
+    return "".join(parts)
+
+
+def _interpolate(points: Sequence[tuple[float, float]], at: float) -> float:
+    for (x0, y0), (x1, y1) in itertools.pairwise(points):
+        if x0 <= at <= x1:
+            return y0 if x1 == x0 else y0 + (y1 - y0) * (at - x0) / (x1 - x0)
+    return points[-1][1] if at > points[-1][0] else points[0][1]
