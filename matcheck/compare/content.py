@@ -1,7 +1,7 @@
 """Content: is the same thing taught, in the same places? Two mechanisms, both located.
 
 1. *Key-term coverage.* One TF-IDF model is fitted over the passages of all versions
-   together. For each pair, each version's key terms (its :data:`KEY_TERMS` heaviest) are
+   together. For each pair, each version's key terms (its ``key_terms`` heaviest) are
    looked up in the other; the share of their weight found there is that version's coverage,
    and the missing terms are named, heaviest first, with the passage where they weigh most.
 2. *Passage alignment* (:mod:`matcheck.compare.alignment`): every passage without a
@@ -28,18 +28,10 @@ from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 if TYPE_CHECKING:
     from scipy.sparse import csr_matrix
 
-KEY_TERMS = DEFAULT_COMPARISON.key_terms
+# The thresholds of the content comparison (key terms, novelty of a cut run, run length) are
+# ComparisonSettings (matcheck/settings.py), where each default has its reason.
 MISSING_SHOWN = 10
 EXCERPT_WORDS = 25
-# A run dropped or added inside paired passages is content when at least this share of its
-# distinct content terms appears nowhere in the other version (judgment call): a sentence cut
-# with what it taught, not a restatement or a reworded phrase.
-NOVEL_SHARE = DEFAULT_COMPARISON.novel_share
-# ... and when at least this many of its content terms are new (judgment call): a sentence
-# that teaches something names several things; a reworded phrase changes one or two words.
-MIN_NOVEL_TERMS = DEFAULT_COMPARISON.min_novel_terms
-# Word runs shorter than this inside paired passages are edits, not content (judgment call).
-MIN_RUN_WORDS = DEFAULT_COMPARISON.min_run_words
 
 
 @dataclass(frozen=True, slots=True)
@@ -80,7 +72,7 @@ class PairContent:
     rewritten: tuple[Evidence, ...]
     moved: tuple[Evidence, ...]
     edits: tuple[Evidence, ...]
-    novel_share: float = NOVEL_SHARE
+    novel_share: float = DEFAULT_COMPARISON.novel_share
     # The word-level comparison (matcheck.compare.edits): changed facts, reworded passages.
     facts: tuple[Evidence, ...] = ()
     reworded: tuple[Evidence, ...] = ()
@@ -301,10 +293,12 @@ def _vocabulary(version: VersionText) -> set[str]:
 
 
 def novelty(
-    run: Sequence[str], other_vocabulary: set[str], min_novel_terms: int = MIN_NOVEL_TERMS
+    run: Sequence[str],
+    other_vocabulary: set[str],
+    min_novel_terms: int = DEFAULT_COMPARISON.min_novel_terms,
 ) -> float:
     """Share of a run's distinct content terms that the other version never uses: how much of
-    what the run says is lost, or new. 0 when fewer than :data:`MIN_NOVEL_TERMS` terms are new
+    what the run says is lost, or new. 0 when fewer than ``min_novel_terms`` terms are new
     (a reworded phrase, "about twenty minutes" -> "roughly a third of an hour", is not content).
     """
     terms = content_terms(run)

@@ -72,7 +72,8 @@ class Observation:
     item: str | None = None
     beyond: str = "beyond tolerance: a possible confound"
     within: str = "within tolerance"
-    unknown: str = "not measurable in every version"
+    # Why a value is unknown, per version ("text-only.pdf: pdf cannot show underline").
+    unknown: tuple[str, ...] = ()
 
 
 def judge(observation: Observation, intended: Mapping[str, str]) -> Judgement:
@@ -83,7 +84,8 @@ def judge(observation: Observation, intended: Mapping[str, str]) -> Judgement:
         basis = Basis.DECLARED if by in (spec.id, spec.group) else Basis.IMPLIED
         return basis, f"manipulated ({by})", None
     if observation.amount is None:
-        return Basis.NOT_SHOWN, observation.unknown, None
+        why = f" ({'; '.join(observation.unknown)})" if observation.unknown else ""
+        return Basis.NOT_SHOWN, f"not measurable in every version{why}", None
     if observation.judged is not None:
         return observation.judged
     allowed = observation.tolerance.allowed(observation.base)
@@ -269,8 +271,8 @@ def unapplied(findings: Sequence[Finding]) -> list[str]:
             declared.setdefault((finding.reference, finding.condition), []).append(finding)
     return [
         f"{condition} vs {reference}: nothing that the design manipulates differs "
-        f"({', '.join(sorted({f.reason.removeprefix('manipulated (').rstrip(')') for f in found}))}"
-        "); check that the manipulation is in the files"
+        f"({', '.join(sorted({f.group.value for f in found}))}); check that the manipulation "
+        "is in the files"
         for (reference, condition), found in declared.items()
         if all(f.difference == 0 for f in found)
     ]

@@ -42,10 +42,11 @@ from matcheck.compare.wordiff import word_opcodes
 from matcheck.findings import Evidence, EvidenceKind
 from matcheck.language.words import Word
 from matcheck.measures.key_terms import Passage
+from matcheck.settings import DEFAULT_COMPARISON
 
 # A run of at least this many words added or cut whole is text added or removed, not a
 # changed statement: the comparison's min_run_words (matcheck.settings), 6 by default.
-RUN_WORDS = 6
+RUN_WORDS = DEFAULT_COMPARISON.min_run_words
 # A replaced run of RUN_WORDS or more words states the same thing changed (and is searched
 # for changed facts) when this share of its distinct words is on both sides (judgment call).
 SAME_STATEMENT = 0.5

@@ -107,7 +107,7 @@ def _measured(
             tolerance=tolerance,
             base=a or 0.0,
             judged=judged,
-            unknown="not measurable in every version" + (f" ({'; '.join(notes)})" if notes else ""),
+            unknown=tuple(notes),
         )
 
 
