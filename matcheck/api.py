@@ -70,6 +70,9 @@ def measure_version(
     version: Version, settings: Settings, limits: ReadLimits, cache: Cache | None = None
 ) -> Profile:
     """Read and measure a version, or take its profile from ``cache`` (docs/performance.md)."""
+    from matcheck.language.tables import use_store
+
+    use_store(cache)  # the language pass keeps its derived tables there too (or nowhere)
     if cache is None:
         return profile_document(read_version(version, limits), settings)
 

@@ -119,16 +119,19 @@ def check_remote(
     return _check_in_worker(path, against, tolerances, limits, cache)
 
 
-def warm_up() -> None:
-    """Import and load what every check needs (pipeline, lemma and syllable tables, ...)."""
-    import scipy.sparse
-    import scipy.special  # noqa: F401
+def warm_up(cache: Cache | None = None) -> None:
+    """Import and load what every check needs (tokenizer, lemma and syllable tables, ...),
+    taking the tables from ``cache`` when it holds them."""
+    import numpy  # noqa: F401
 
-    from matcheck.language.pipeline import lemma, nlp, stop_words
+    from matcheck.language.pipeline import lemma, stop_words
     from matcheck.language.syllables import count_syllables
+    from matcheck.language.tables import use_store
+    from matcheck.language.tokenizer import english
     from matcheck.language.wordlists import dale_chall_familiar
 
-    nlp()("Warm up.")
+    use_store(cache)
+    english().tokens("Warm up.")
     lemma("warming")
     stop_words()
     count_syllables("warming")
@@ -177,7 +180,7 @@ def check_all(
     if "fork" in multiprocessing.get_all_start_methods():
         # Load the language data and libraries once here: forked workers share them instead
         # of each paying the second or so it takes.
-        warm_up()
+        warm_up(cache)
         context = multiprocessing.get_context("fork")
     from matcheck.inputs import note_all
     from matcheck.workers import worker_pool

@@ -415,6 +415,13 @@ class Cache:
         self.links.update(zip(map(str, paths), links, strict=True))
         return profile
 
+    def load_table(self, name: str, version: str) -> object | None:
+        """A data table the language pass derived from a library (matcheck.language.tables)."""
+        return self.store.load(_table_key(name, version))
+
+    def save_table(self, name: str, version: str, value: object) -> None:
+        self.store.save(_table_key(name, version), value)
+
     def has_version(self, paths: Sequence[Path], parameters: dict[str, Any]) -> bool:
         """Whether an entry for this version exists (not whether it is valid: that takes
         unpickling it, which the lookup does)."""
@@ -495,6 +502,13 @@ class Cache:
         else:
             self.misses += files
             self.fresh.add(key)
+
+
+def _table_key(name: str, version: str) -> str:
+    """A table's key: its name, the version of the library it is derived from, and the code
+    that derives it (matcheck's version and source digest)."""
+    parts = ["table", CACHE_FORMAT, __version__, code_digest(), name, version]
+    return hashlib.sha256(json.dumps(parts).encode()).hexdigest()
 
 
 def _note_inputs(paths: Sequence[Path], links: Sequence[tuple[tuple[str, str], ...]]) -> None:

@@ -19,10 +19,10 @@ import random
 
 import numpy as np
 import pytest
-from scipy.sparse import csr_matrix
 
 from matcheck.compare import alignment
 from matcheck.compare.wordiff import DIRECT_DIFF_WORDS, word_opcodes
+from matcheck.measures.sparse import SparseRows
 
 
 def _reference_pairs(
@@ -130,8 +130,9 @@ def test_banded_programme_matches_the_documented_recurrence(seed: int) -> None:
     texts_b = [rng.choice(["step one", "step two", "note"]) for _ in range(len(b))]
     expected_pairs, expected_removed, expected_added = _reference_pairs(a, b, texts_a, texts_b)
     # align() also absorbs neighbours and finds moves afterwards; compare the programme alone.
-    band = alignment._Banded(csr_matrix(a), csr_matrix(b), 60)
-    sims = alignment._Similarity(band, csr_matrix(a), csr_matrix(b), texts_a, texts_b)
+    left, right = SparseRows.from_dense(a), SparseRows.from_dense(b)
+    band = alignment._Banded(left, right, 60)
+    sims = alignment._Similarity(band, left, right, texts_a, texts_b)
     rows = alignment._programme(band, sims, len(a))
     pairs, removed, added = [], [], []
     i, j = len(a), len(b)

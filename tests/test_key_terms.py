@@ -14,12 +14,12 @@ from __future__ import annotations
 import math
 
 import pytest
-from scipy.sparse import csr_matrix
 
 from matcheck.compare.alignment import align
 from matcheck.language.analysis import Analysis, analyze
 from matcheck.measures import measure
 from matcheck.measures.key_terms import fit_tfidf, passage_terms, passages, term_weights
+from matcheck.measures.sparse import SparseRows
 from matcheck.model import BlockKind
 from matcheck.readers.builder import DocumentBuilder
 from matcheck.settings import Settings
@@ -106,8 +106,8 @@ def _log_weights(counts: list[int]) -> list[float]:
 
 def _aligned_similarity(left: list[list[float]], right: list[list[float]]) -> list[float]:
     result = align(
-        csr_matrix(left),
-        csr_matrix(right),
+        SparseRows.from_dense(left),
+        SparseRows.from_dense(right),
         [f"left {i}" for i in range(len(left))],
         [f"right {j}" for j in range(len(right))],
     )
@@ -139,8 +139,8 @@ def test_alignment_two_to_one_cosine_uses_the_summed_vector() -> None:
     first = [sas[0], 0.0, 0.0, 0.0]
     second = [0.0, sas[1], sas[2], 0.0]
     result = align(
-        csr_matrix([first, second]),
-        csr_matrix([_log_weights(MRS_COUNTS["PaP"])]),
+        SparseRows.from_dense([first, second]),
+        SparseRows.from_dense([_log_weights(MRS_COUNTS["PaP"])]),
         ["first half", "second half"],
         ["whole"],
     )

@@ -34,3 +34,17 @@ def test_agrees_with_scipy_and_statsmodels(seed: int) -> None:
     # statsmodels' ttost_ind(x1, x2, low, upp, usevar="unequal") tests low < m1 - m2 < upp.
     expected = ttost_ind(b, a, -2.5, 2.5, usevar="unequal")[0]
     assert tost_welch_p(a, b, -2.5, 2.5) == pytest.approx(expected, rel=1e-9)
+
+
+@pytest.mark.parametrize("df", [0.3, 1.0, 2.5, 10.0, 29.3, 100.0, 1000.0, 1e4, 1e6])
+def test_t_cdf_is_scipys(df: float) -> None:
+    # scipy.special.stdtr is the reference library (docs/references.md §29).
+    from scipy.special import stdtr
+
+    from matcheck.compare.stats import _t_cdf
+
+    points = [k / 4 for k in range(-240, 241)] + [1e-8, -1e-8, 1e3, -1e3, 1e6, -1e6]
+    for t in points:
+        expected = float(stdtr(df, t))
+        tolerance = 1e-12 if df <= 1000 and abs(t) <= 60 and df >= 2 else 1e-8
+        assert _t_cdf(df, t) == pytest.approx(expected, rel=tolerance, abs=1e-300)

@@ -25,7 +25,8 @@ from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     import numpy as np
-    from scipy.sparse import csr_matrix
+
+    from matcheck.measures.sparse import SparseRows
 
 # Defaults of ComparisonSettings.pair_threshold and .rewritten_below (matcheck/settings.py).
 PAIR_THRESHOLD = 0.25
@@ -69,7 +70,7 @@ class Alignment:
 class _Banded:
     """Dot products ``A[i] · B[j]`` for ``j`` within the band of row ``i``."""
 
-    def __init__(self, left: csr_matrix, right: csr_matrix, width: int) -> None:
+    def __init__(self, left: SparseRows, right: SparseRows, width: int) -> None:
         import numpy as np
 
         n, m = left.shape[0], right.shape[0]
@@ -80,11 +81,10 @@ class _Banded:
             self.low[i] = max(0, math.floor(centre) - width)
             self.high[i] = min(m, math.ceil(centre) + width)
         self.rows: list[np.ndarray] = []
-        right_t = right.T.tocsc()
         for start in range(0, n, _CHUNK):
             stop = min(n, start + _CHUNK)
             lo, hi = int(self.low[start]), int(self.high[stop - 1]) + 1
-            block = (left[start:stop] @ right_t[:, lo:hi]).toarray()
+            block = left.rows(start, stop).dot_rows(right.rows(lo, hi))
             for offset, i in enumerate(range(start, stop)):
                 a, b = int(self.low[i]), int(self.high[i]) + 1
                 self.rows.append(block[offset, a - lo : b - lo])
@@ -111,20 +111,6 @@ def _band_width(n: int, m: int) -> int:
     return max(MIN_BAND, share, abs(n - m) + MIN_BAND // 2)
 
 
-def _squared_norms(matrix: csr_matrix) -> np.ndarray:
-    import numpy as np
-
-    return np.asarray(matrix.multiply(matrix).sum(axis=1)).ravel()
-
-
-def _adjacent_dots(matrix: csr_matrix) -> np.ndarray:
-    import numpy as np
-
-    if matrix.shape[0] < 2:
-        return np.zeros(0)
-    return np.asarray(matrix[:-1].multiply(matrix[1:]).sum(axis=1)).ravel()
-
-
 class _Similarity:
     """Cosines of the three pairing moves, a whole band row at a time.
 
@@ -136,16 +122,16 @@ class _Similarity:
     def __init__(
         self,
         band: _Banded,
-        left: csr_matrix,
-        right: csr_matrix,
+        left: SparseRows,
+        right: SparseRows,
         plain_a: list[str],
         plain_b: list[str],
     ) -> None:
 
         self.band, self.plain_a, self.plain_b = band, plain_a, plain_b
-        self.norm_a, self.norm_b = _squared_norms(left), _squared_norms(right)
-        self.next_a = _adjacent_dots(left)
-        next_b = _adjacent_dots(right)
+        self.norm_a, self.norm_b = left.squared_norms(), right.squared_norms()
+        self.next_a = left.adjacent_dots()
+        next_b = right.adjacent_dots()
         # |b[j] + b[j+1]|² = |b[j]|² + |b[j+1]|² + 2 b[j]·b[j+1]
         self.pair_b = self.norm_b[:-1] + self.norm_b[1:] + 2 * next_b
         self.empty_b = self.norm_b <= 0
@@ -318,8 +304,8 @@ def _programme(
 
 
 def align(
-    left: csr_matrix,
-    right: csr_matrix,
+    left: SparseRows,
+    right: SparseRows,
     left_texts: Sequence[str],
     right_texts: Sequence[str],
     *,
@@ -361,8 +347,8 @@ def align(
 
 
 def _absorb(
-    left: csr_matrix,
-    right: csr_matrix,
+    left: SparseRows,
+    right: SparseRows,
     pairs: list[Pair],
     removed: list[int],
     added: list[int],
@@ -376,8 +362,8 @@ def _absorb(
     """
     import numpy as np
 
-    def vector(matrix: csr_matrix, rows: Sequence[int]) -> np.ndarray:
-        return np.asarray(matrix[list(rows)].sum(axis=0)).ravel()
+    def vector(matrix: SparseRows, rows: Sequence[int]) -> np.ndarray:
+        return matrix.take(rows).column_totals()
 
     def cosine(a: np.ndarray, b: np.ndarray) -> float:
         denominator = float(np.linalg.norm(a) * np.linalg.norm(b))
@@ -422,8 +408,8 @@ def _absorb(
 
 
 def _find_moved(
-    left: csr_matrix,
-    right: csr_matrix,
+    left: SparseRows,
+    right: SparseRows,
     removed: list[int],
     added: list[int],
     plain_a: list[str],
@@ -437,9 +423,9 @@ def _find_moved(
 
     if not removed or not added:
         return [], removed, added
-    a = normalize(left[removed])
-    b = normalize(right[added])
-    sims = (a @ b.T).toarray()
+    a = normalize(left.take(removed))
+    b = normalize(right.take(added))
+    sims = a.dot_rows(b)
     for r, i in enumerate(removed):
         for c, j in enumerate(added):
             if plain_a[i] == plain_b[j]:

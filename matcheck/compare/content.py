@@ -26,7 +26,7 @@ from matcheck.measures.key_terms import Passage, fit_tfidf, passages, term_weigh
 from matcheck.settings import DEFAULT_COMPARISON, ComparisonSettings
 
 if TYPE_CHECKING:
-    from scipy.sparse import csr_matrix
+    from matcheck.measures.sparse import SparseRows
 
 # The thresholds of the content comparison (key terms, novelty of a cut run, run length) are
 # ComparisonSettings (matcheck/settings.py), where each default has its reason.
@@ -46,12 +46,12 @@ class ContentModel:
     """The shared TF-IDF model of all versions' passages."""
 
     versions: dict[str, VersionText]
-    raw: csr_matrix
-    normalized: csr_matrix
+    raw: SparseRows
+    normalized: SparseRows
     vocabulary: list[str]
 
-    def rows(self, name: str) -> csr_matrix:
-        return self.raw[self.versions[name].rows.start : self.versions[name].rows.stop]
+    def rows(self, name: str) -> SparseRows:
+        return self.raw.rows(self.versions[name].rows.start, self.versions[name].rows.stop)
 
 
 @dataclass(frozen=True, slots=True)
@@ -132,7 +132,7 @@ def build_model(analyses: dict[str, Analysis]) -> ContentModel:
     from matcheck.measures.tfidf import l2_normalize as normalize
 
     raw, vocabulary = fit_tfidf(term_lists, normalized=False)
-    return ContentModel(versions, raw, normalize(raw).tocsr(), vocabulary)
+    return ContentModel(versions, raw, normalize(raw), vocabulary)
 
 
 def excerpt(text: str, words: int = EXCERPT_WORDS) -> str:
@@ -162,16 +162,16 @@ def _coverage(model: ContentModel, source: str, target: str, key_terms: int) -> 
     target_rows = model.versions[target].rows
     present_columns = set(
         np.flatnonzero(
-            np.asarray(model.raw[target_rows.start : target_rows.stop].sum(axis=0)).ravel()
+            model.raw.rows(target_rows.start, target_rows.stop).column_totals()
         ).tolist()
     )
     index = {term: i for i, term in enumerate(model.vocabulary)}
     missing = [(term, weight) for term, weight in key if index[term] not in present_columns]
     share = 1.0 - sum(weight for _, weight in missing) / total
     evidence = []
-    block = model.normalized[src.rows.start : src.rows.stop]
+    block = model.normalized.rows(src.rows.start, src.rows.stop)
     for term, weight in missing[:MISSING_SHOWN]:
-        column = block[:, index[term]].toarray().ravel()
+        column = block.column(index[term])
         where = src.passages[int(column.argmax())]
         evidence.append(
             Evidence(

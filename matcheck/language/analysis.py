@@ -1,7 +1,7 @@
 """One language pass over a document: words, sentences and content terms per block.
 
 Every measure and the comparison read this analysis rather than re-tokenising the text, so
-spaCy runs exactly once per document.
+each block is tokenised exactly once (:mod:`matcheck.language.tokenizer`).
 
 Which blocks count for what (documented in docs/measures.md):
 
@@ -86,32 +86,45 @@ class Analysis:
 
 def analyze(document: Document) -> Analysis:
     """Run the language pass over every block of ``document``."""
-    from matcheck.language.pipeline import lemma, mark_sentences, nlp, stop_words
+    from matcheck.language.pipeline import lemma, stop_words
+    from matcheck.language.segment import sentence_starts
+    from matcheck.language.tokenizer import english, sentence_spans
 
     stops = stop_words()
-    pipeline = nlp()
-    texts = [block.text for block in document.blocks]
+    tokenizer = english()
     results: list[BlockAnalysis] = []
-    for block, doc in zip(document.blocks, pipeline.pipe(texts, batch_size=256), strict=True):
-        words = tuple(iter_words(block.text))
+    for block in document.blocks:
+        text = block.text
+        tokens = tokenizer.tokens(text)
+        words = tuple(iter_words(text))
         starts = [word.start for word in words]
         sentences = []
         cursor = 0
-        for span in mark_sentences(doc, block.text).sents:
-            begin, finish = span.start_char, span.end_char
+        spans = sentence_spans(tokens, sentence_starts(text)) if tokens else []
+        for first_token, end_token in spans:
+            last = tokens[end_token - 1]
+            begin, finish = tokens[first_token].idx, last.idx + len(last.text)
             first = cursor
             while cursor < len(words) and starts[cursor] < finish:
                 cursor += 1
             terms = tuple(
                 term
-                for token in span
-                if token.is_alpha and len(token.text) > 1 and token.lower_ not in stops
-                for term in (lemma(token.lower_),)
+                for token in tokens[first_token:end_token]
+                if token.text.isalpha() and len(token.text) > 1
+                for lower in (token.text.lower(),)
+                if lower not in stops
+                for term in (lemma(lower),)
                 if term not in stops
             )
             sentences.append(Sentence(begin, finish, first, cursor, terms))
         if sentences and cursor < len(words):
-            last = sentences[-1]
-            sentences[-1] = Sentence(last.start, last.end, last.first_word, len(words), last.terms)
+            last_sentence = sentences[-1]
+            sentences[-1] = Sentence(
+                last_sentence.start,
+                last_sentence.end,
+                last_sentence.first_word,
+                len(words),
+                last_sentence.terms,
+            )
         results.append(BlockAnalysis(block, words, tuple(s for s in sentences if s.word_count)))
     return Analysis(document, tuple(results))

@@ -65,10 +65,12 @@ def is_number(word: str) -> bool:
 
 @cache
 def _index() -> dict[str, frozenset[str]]:
-    """spaCy's English lemma index: part of speech -> base forms (spacy-lookups-data)."""
-    from spacy.util import load_language_data, registry
+    """spaCy's English lemma index: part of speech -> base forms (spacy-lookups-data), read
+    as spaCy's ``load_language_data(registry.lookups.get("en")["lemma_index"])`` reads it,
+    without importing spaCy."""
+    from matcheck.language.pipeline import lookups_data
 
-    data = load_language_data(registry.lookups.get("en")["lemma_index"])
+    data = lookups_data("lemma_index")
     if not isinstance(data, dict):
         raise ValueError("the English lemma index of spacy-lookups-data is not a mapping")
     return {str(pos): frozenset(map(str, words)) for pos, words in data.items()}

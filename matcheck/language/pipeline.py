@@ -1,75 +1,43 @@
-"""The spaCy pipeline, loaded once and lazily: tokens, sentences and lemmas, offline.
+"""Lemmas and stop words from spaCy's English data, without importing spaCy.
 
-matcheck always uses a *blank* English pipeline (the tokenizer alone), marks on its tokens
-the sentence starts found by :mod:`matcheck.language.segment` (:func:`mark_sentences`), and
-takes lemmas from the English lookup table of ``spacy-lookups-data`` corrected by
-:mod:`matcheck.language.lemmas`. A
-trained pipeline would give slightly different sentences and lemmas on different machines
-depending on what happens to be installed; the blank one makes every result reproducible
-and needs no model download.
+matcheck tokenises with the rules of spaCy's *blank* English pipeline
+(:mod:`matcheck.language.tokenizer`), marks sentences by the rules of
+:mod:`matcheck.language.segment`, and takes lemmas from the English lookup table of
+``spacy-lookups-data`` corrected by :mod:`matcheck.language.lemmas`. A trained pipeline would
+give slightly different sentences and lemmas on different machines depending on what happens
+to be installed; the blank one makes every result reproducible and needs no model download.
 """
 
 from __future__ import annotations
 
 from functools import cache
 from pathlib import Path
-from typing import TYPE_CHECKING
-
-if TYPE_CHECKING:
-    from spacy.language import Language
-    from spacy.tokens import Doc
-
-
-def mark_sentences(doc: Doc, text: str) -> Doc:
-    """Set the sentence starts of ``doc``, the tokens of ``text``, from the rules of
-    :mod:`matcheck.language.segment`, so that ``doc.sents`` gives them.
-
-    Boundaries fall after white space, where spaCy always starts a token; a boundary that
-    should fall inside a token moves to the next token start, so no text is tokenised twice.
-    ``text`` is passed in because rebuilding it from the tokens (``doc.text``) costs more than
-    tokenising it; the flags are written as one array because setting
-    ``Token.is_sent_start`` token by token cost ten times the tokenizer's own time.
-    """
-    import numpy
-    from spacy.attrs import IDX, SENT_START
-
-    from matcheck.language.segment import sentence_starts
-
-    if not len(doc):
-        return doc
-    offsets = doc.to_array(IDX)
-    first_tokens = numpy.searchsorted(offsets, sentence_starts(text), side="left")
-    flags = numpy.full(len(doc), -1, dtype=numpy.int64)  # -1: not a sentence start
-    flags[first_tokens[first_tokens < len(doc)]] = 1
-    flags[0] = 1
-    doc.from_array([SENT_START], flags.astype(numpy.uint64).reshape(-1, 1))  # type: ignore[arg-type]
-    return doc
-
-
-@cache
-def nlp() -> Language:
-    """The shared pipeline: spaCy's English tokenizer; :func:`mark_sentences` adds sentences."""
-    import spacy
-
-    pipeline = spacy.blank("en")
-    # Blocks are processed one at a time; a PDF can still yield one very long block.
-    pipeline.max_length = 50_000_000
-    return pipeline
 
 
 @cache
 def _lemma_table() -> dict[str, str]:
+    """Lower-case word -> lemma (:func:`_read_lemma_table`), kept between runs as a table."""
+    from matcheck.language.tables import table
+
+    return table("en-lemma-lookup", "spacy-lookups-data", _read_lemma_table, _is_str_table)
+
+
+def _is_str_table(value: object) -> bool:
+    from itertools import islice
+
+    return isinstance(value, dict) and all(
+        isinstance(k, str) and isinstance(v, str) for k, v in islice(value.items(), 100)
+    )
+
+
+def _read_lemma_table() -> dict[str, str]:
     """Lower-case word -> lemma, from spaCy's English lookup lemmatizer data.
 
     The same file ``spacy.lookups.load_lookups("en", ["lemma_lookup"])`` reads, found through
     the same registry, kept as a plain dict: building spaCy's hashed ``Table`` from it took
     three quarters of the load time (about 0.07 s of 0.09 s) and looks words up no better.
     """
-    try:  # the package spaCy's lookups registry names for "en"; importing spaCy takes ~0.4 s
-        import spacy_lookups_data
-    except ImportError:
-        raise ValueError("spacy-lookups-data is not installed: no English lemma table") from None
-    table = _json_data(Path(spacy_lookups_data.en["lemma_lookup"]))
+    table = lookups_data("lemma_lookup")
     if not isinstance(table, dict):
         raise ValueError("the English lemma table of spacy-lookups-data is not a mapping")
     return {str(word): str(base) for word, base in table.items()}
@@ -87,6 +55,16 @@ def lemma(lower: str) -> str:
     if fixed is not None:
         return fixed
     return _lemma_table().get(lower, lower)
+
+
+def lookups_data(name: str) -> object:
+    """One of spacy-lookups-data's English tables, found as spaCy's lookups registry finds it
+    (the package's ``en`` mapping) but without importing spaCy (~0.6 s)."""
+    try:
+        import spacy_lookups_data
+    except ImportError:
+        raise ValueError(f"spacy-lookups-data is not installed: no English {name}") from None
+    return _json_data(Path(spacy_lookups_data.en[name]))
 
 
 def _json_data(path: Path) -> object:

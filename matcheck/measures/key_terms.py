@@ -22,7 +22,7 @@ from matcheck.model import BlockKind, Location
 from matcheck.settings import Settings
 
 if TYPE_CHECKING:
-    from scipy.sparse import csr_matrix
+    from matcheck.measures.sparse import SparseRows
 
 KEY_TERMS = MeasureSpec(
     "key_terms",
@@ -102,7 +102,7 @@ def passages(analysis: Analysis, *, code: bool = True) -> tuple[Passage, ...]:
 
 def fit_tfidf(
     term_lists: Sequence[list[str]], *, normalized: bool = True
-) -> tuple[csr_matrix, list[str]]:
+) -> tuple[SparseRows, list[str]]:
     """Fit TF-IDF over pre-tokenised passages; returns the matrix and the vocabulary.
 
     ``normalized=False`` keeps raw tf-idf rows, so that the vector of two passages together
@@ -114,14 +114,14 @@ def fit_tfidf(
 
 
 def term_weights(
-    matrix: csr_matrix, rows: Sequence[int], vocabulary: list[str]
+    matrix: SparseRows, rows: Sequence[int], vocabulary: list[str]
 ) -> dict[str, float]:
     """Sum of tf-idf per term over the given passage rows."""
     import numpy as np
 
     if not rows:
         return {}
-    totals = np.asarray(matrix[list(rows)].sum(axis=0)).ravel()
+    totals = matrix.take(rows).column_totals()
     return {vocabulary[i]: float(totals[i]) for i in np.flatnonzero(totals)}
 
 

@@ -3,7 +3,8 @@
 scikit-learn took ~0.8 s to import (``sklearn.preprocessing`` pulls in scipy.stats and
 pandas) to do ~0.02 s of work here, and it was the largest cost of a re-check whose
 profiles come from the cache (docs/performance.md, "Start-up"). This module builds the same
-matrix with numpy and scipy.sparse: the same vocabulary order (sorted terms), the same
+matrix with numpy (:class:`~matcheck.measures.sparse.SparseRows`, the arrays of a
+``scipy.sparse.csr_matrix``): the same vocabulary order (sorted terms), the same
 stored order of each row's entries (by the term's first appearance in all the passages,
 then renumbered), the
 smoothed idf ``ln((1 + n) / (1 + df)) + 1`` (docs/references.md has no section for it: it is
@@ -20,18 +21,19 @@ from collections.abc import Sequence
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
-    from scipy.sparse import csr_matrix
+    from matcheck.measures.sparse import SparseRows
 
 
 def fit(
     term_lists: Sequence[Sequence[str]], *, normalized: bool = True
-) -> tuple[csr_matrix, list[str]]:
+) -> tuple[SparseRows, list[str]]:
     """The tf-idf matrix (one row per passage) and the sorted vocabulary.
 
     Raises ``ValueError`` when no passage has a term, as scikit-learn does.
     """
     import numpy as np
-    from scipy.sparse import csr_matrix
+
+    from matcheck.measures.sparse import SparseRows
 
     index: dict[str, int] = {}
     columns: list[int] = []
@@ -59,19 +61,21 @@ def fit(
     frequency = np.bincount(indices, minlength=len(vocabulary)) + 1
     idf = np.log((rows + 1) / frequency) + 1
     data *= idf[indices]
-    matrix = csr_matrix(
-        (data, indices.astype(np.int32), np.asarray(indptr, dtype=np.int32)),
-        shape=(rows, len(vocabulary)),
+    matrix = SparseRows(
+        data,
+        indices.astype(np.int32),
+        np.asarray(indptr, dtype=np.int32),
+        (rows, len(vocabulary)),
     )
     return (l2_normalize(matrix, copy=False) if normalized else matrix), vocabulary
 
 
-def l2_normalize(matrix: csr_matrix, *, copy: bool = True) -> csr_matrix:
+def l2_normalize(matrix: SparseRows, *, copy: bool = True) -> SparseRows:
     """Rows scaled to unit length (rows of zeros stay zero), like ``sklearn.preprocessing.
     normalize(matrix)``: each row's squares summed one by one in stored order."""
-    from scipy.sparse import csr_matrix as csr
+    import numpy as np
 
-    result = csr(matrix, dtype="float64", copy=copy)
+    result = matrix.with_data(np.array(matrix.data, dtype=np.float64, copy=copy))
     data = result.data
     bounds = result.indptr.tolist()
     squares = (data * data).tolist()
