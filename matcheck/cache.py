@@ -107,10 +107,11 @@ def default_max_bytes() -> int:
 
 @lru_cache(maxsize=1)
 def code_digest() -> str:
-    """SHA-256 over matcheck's source files (paths and bytes), computed once per process."""
+    """SHA-256 over matcheck's source and data files (paths and bytes), computed once per
+    process."""
     root = Path(__file__).resolve().parent
     digest = hashlib.sha256()
-    for path in sorted(root.rglob("*.py")):
+    for path in sorted([*root.rglob("*.py"), *root.rglob("*.json")]):
         digest.update(path.relative_to(root).as_posix().encode())
         digest.update(b"\0")
         digest.update(path.read_bytes())

@@ -223,7 +223,10 @@ def check(
     cache = _cache(no_cache)
     options = RenderOptions(show_matched=all_rows)
     if study.is_dir():
+        from functools import partial
+
         from matcheck.batch import check_folder
+        from matcheck.report.studies import prerender
 
         targets = _targets(Subject.STUDIES, format, "table", output)
         paths, results = check_folder(
@@ -235,6 +238,8 @@ def check(
             progress=sys.stderr.isatty(),
             cache=cache,
             scheduler=scheduler,
+            # Each study's part of the output is rendered by the worker that checked it.
+            finish=partial(prerender, formats=tuple(f.name for f, _ in targets)),
         )
         reports = [r.report for r in results if r.report is not None]
         deliver_all(targets, results, paths, options)

@@ -382,11 +382,16 @@ class Report:
 
 @dataclass(frozen=True, slots=True)
 class StudyResult:
-    """One study of a folder: its report, or the one-line error that stopped it."""
+    """One study of a folder: its report, or the one-line error that stopped it.
+
+    ``rendered`` holds output already rendered for this study alone, by format name, where
+    the worker that checked it did that work (``check DIR``: matcheck.batch's ``finish``).
+    """
 
     path: str
     report: Report | None
     error: str | None
+    rendered: tuple[tuple[str, str], ...] = ()
 
 
 def exit_status(reports: Iterable[Report], *, failed: int = 0) -> int:

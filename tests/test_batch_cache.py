@@ -109,3 +109,25 @@ def test_the_folder_summary_counts_the_files_from_the_cache(
     assert "6 of 6 lesson files from the cache" in capsys.readouterr().out
     main(["check", str(folder), "--jobs", "1", "--no-cache"])
     assert "from the cache" not in capsys.readouterr().out
+
+
+@pytest.mark.parametrize("cache_flag", [[], ["--no-cache"]])
+@pytest.mark.parametrize("target", ["shared/control.md", "own/treatment2.md"])
+def test_two_workers_still_refuse_every_lesson_as_the_output(
+    tmp_path: Path, cache_flag: list[str], target: str
+) -> None:
+    # Workers send the files they read back with each result (matcheck.inputs.take_new); a
+    # file read while the cache was filled must still reach the parent.
+    import subprocess
+    import sys
+
+    root = _folder(tmp_path / "studies")
+    lesson = root / target
+    before = lesson.read_bytes()
+    command = [sys.executable, "-m", "matcheck", "check", str(root), "--jobs", "2", "-f", "json"]
+    done = subprocess.run(
+        [*command, *cache_flag, "-o", str(lesson)], capture_output=True, text=True
+    )
+    assert done.returncode == 2, done.stderr
+    assert str(lesson.name) in done.stderr and "Traceback" not in done.stderr
+    assert lesson.read_bytes() == before

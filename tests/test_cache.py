@@ -368,7 +368,7 @@ def test_a_cached_lesson_and_its_image_are_still_refused_as_outputs(
     monkeypatch.chdir(folder)
     assert main(["compare", "a.md", "b.md"]) == 0
     for target in ("unit.png", "a.md"):
-        matcheck.inputs._READ.clear()  # a new run: nothing noted yet
+        matcheck.inputs.forget()  # a new run: nothing noted yet
         assert main(["compare", "a.md", "b.md", "-o", target]) == 2
     assert (folder / "unit.png").read_bytes() == image
     assert (folder / "a.md").read_text(encoding="utf-8").startswith("# Heat pumps")

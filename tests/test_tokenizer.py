@@ -233,10 +233,34 @@ def test_a_cached_run_does_not_import_spacy(tmp_path: Path) -> None:
         [sys.executable, "-c", probe, str(lesson)], capture_output=True, text=True, env=env
     )
     assert first.returncode == 0, first.stderr
-    assert first.stdout.split() == ["True", "10.0"]  # spaCy gave the rules once
+    # spaCy gives the rules once, unless the packaged copy is of the installed release.
+    from matcheck.language.tables import library_version
+    from matcheck.language.tokenizer import packaged_rules
+
+    packaged = packaged_rules()
+    same_release = packaged is not None and packaged[0] == library_version("spacy")
+    assert first.stdout.split() == [str(not same_release), "10.0"]
     lesson.write_text("# Valves\n\nDon't over-tighten the valve. Check it after 3 days.\n")
     second = subprocess.run(
         [sys.executable, "-c", probe, str(lesson)], capture_output=True, text=True, env=env
     )
     assert second.returncode == 0, second.stderr
     assert second.stdout.split() == ["False", "10.0"]
+
+
+def test_the_packaged_rules_are_the_installed_spacys_or_unused(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    # scripts/build_tokenizer_rules.py wrote them; they serve only the release they came from.
+    from matcheck.language import tables, tokenizer
+
+    packaged = tokenizer.packaged_rules()
+    assert packaged is not None
+    release, rules = packaged
+    if release == tables.library_version("spacy"):
+        assert rules == rules_from_spacy()
+    monkeypatch.setattr(tables, "library_version", lambda name: "0.0-other")
+    taken: list[int] = []
+    monkeypatch.setattr(tokenizer, "rules_from_spacy", lambda: taken.append(1) or rules)
+    tokenizer.installed_rules()
+    assert taken == [1]  # another release: the rules come from spaCy itself

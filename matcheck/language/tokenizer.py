@@ -18,11 +18,13 @@ compiled ``re`` expression), :func:`rules_from_spacy` refuses and the error says
 
 from __future__ import annotations
 
+import json
 import re
 from bisect import bisect_left
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 from functools import cache
+from pathlib import Path
 
 # Bump when the layout of TokenizerRules changes (it is stored between runs).
 RULES_FORMAT = 1
@@ -109,12 +111,71 @@ def _valid(value: object) -> bool:
     return isinstance(value, TokenizerRules) and value.format == RULES_FORMAT
 
 
+# The rules of the spaCy release matcheck is tested with, as scripts/build_tokenizer_rules.py
+# wrote them: a first run (and every run with --no-cache, as on a CI runner) then needs no
+# spaCy import either. Another installed release has its rules taken from spaCy instead.
+PACKAGED = Path(__file__).with_name("spacy_en_tokenizer.json")
+
+
 @cache
 def english() -> Tokenizer:
-    """The English tokenizer, its rules from the table store or from spaCy."""
+    """The English tokenizer, its rules from the table store, the packaged copy for the
+    installed spaCy release, or spaCy itself."""
     from matcheck.language.tables import table
 
-    return Tokenizer(table("spacy-en-tokenizer", "spacy", rules_from_spacy, _valid))
+    return Tokenizer(table("spacy-en-tokenizer", "spacy", installed_rules, _valid))
+
+
+def installed_rules() -> TokenizerRules:
+    """The rules of the installed spaCy: the packaged copy when it was made from the same
+    release, else from spaCy (:func:`rules_from_spacy`)."""
+    from matcheck.language.tables import library_version
+
+    packaged = packaged_rules()
+    if packaged is not None and packaged[0] == library_version("spacy"):
+        return packaged[1]
+    return rules_from_spacy()
+
+
+def packaged_rules() -> tuple[str, TokenizerRules] | None:
+    """The spaCy release the packaged rules were made from, and the rules."""
+    try:
+        data = json.loads(PACKAGED.read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return None
+    if not isinstance(data, dict) or data.get("format") != RULES_FORMAT:
+        return None
+
+    def pattern(value: object) -> Pattern | None:
+        return None if value is None else (str(value[0]), int(value[1]))  # type: ignore[index]
+
+    rules = TokenizerRules(
+        format=RULES_FORMAT,
+        prefix=pattern(data["prefix"]),
+        suffix=pattern(data["suffix"]),
+        infix=pattern(data["infix"]),
+        token_match=pattern(data["token_match"]),
+        url_match=pattern(data["url_match"]),
+        specials={str(k): tuple(map(str, v)) for k, v in data["specials"].items()},
+        matched={str(k): tuple(map(str, v)) for k, v in data["matched"].items()},
+    )
+    return str(data["spacy"]), rules
+
+
+def rules_json(rules: TokenizerRules, spacy_version: str) -> str:
+    """The rules as the packaged file holds them."""
+    data = {
+        "format": rules.format,
+        "spacy": spacy_version,
+        "prefix": rules.prefix,
+        "suffix": rules.suffix,
+        "infix": rules.infix,
+        "token_match": rules.token_match,
+        "url_match": rules.url_match,
+        "specials": rules.specials,
+        "matched": rules.matched,
+    }
+    return json.dumps(data, ensure_ascii=False, indent=0, sort_keys=True) + "\n"
 
 
 def _compile(pattern: Pattern | None) -> re.Pattern[str] | None:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 from collections.abc import Sequence
+from dataclasses import replace
 from typing import TYPE_CHECKING
 
 from matcheck.findings import SCHEMA_VERSION, Status, StudyResult
@@ -13,23 +14,40 @@ if TYPE_CHECKING:
     from rich.console import Console
 
 
-def render_json(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
+def study_json(result: StudyResult) -> str:
+    """One study of the folder's JSON, on one line (compact: ``json.dumps`` without
+    ``indent`` runs in C, with it in Python, 0.9 s instead of 0.2 s for 200 studies of 140
+    findings)."""
     from matcheck.report.json_report import report_dict
 
-    data = {
-        "schema_version": SCHEMA_VERSION,
-        "studies": [
-            {
-                "path": result.path,
-                "error": result.error,
-                "report": report_dict(result.report) if result.report else None,
-            }
-            for result in results
-        ],
-    }
+    return json.dumps(
+        {
+            "path": result.path,
+            "error": result.error,
+            "report": report_dict(result.report) if result.report else None,
+        },
+        ensure_ascii=False,
+    )
+
+
+def prerender(result: StudyResult, formats: tuple[str, ...]) -> StudyResult:
+    """``result`` with its part of the folder's output in ``formats`` already rendered (in
+    the worker that checked it: matcheck.batch's ``finish``). Only JSON renders per study."""
+    if "json" not in formats:
+        return result
+    return replace(result, rendered=(*result.rendered, ("json", study_json(result))))
+
+
+def render_json(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
+    """One JSON document with one study per line, easy to scan, grep and diff."""
     from matcheck.report.escape import json_text
 
-    return json_text(json.dumps(data, indent=2, ensure_ascii=False)) + "\n"
+    studies = ",\n    ".join(
+        dict(result.rendered).get("json") or study_json(result) for result in results
+    )
+    version = json.dumps(SCHEMA_VERSION)
+    listed = f"[\n    {studies}\n  ]" if results else "[]"
+    return json_text(f'{{\n  "schema_version": {version},\n  "studies": {listed}\n}}') + "\n"
 
 
 def render_markdown(results: Sequence[StudyResult], options: RenderOptions | None = None) -> str:
