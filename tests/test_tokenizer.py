@@ -8,6 +8,7 @@ tokenizer's special rules, and on generated strings.
 
 from __future__ import annotations
 
+import json
 import pickle
 import re
 import subprocess
@@ -264,3 +265,38 @@ def test_the_packaged_rules_are_the_installed_spacys_or_unused(
     monkeypatch.setattr(tokenizer, "rules_from_spacy", lambda: taken.append(1) or rules)
     tokenizer.installed_rules()
     assert taken == [1]  # another release: the rules come from spaCy itself
+
+
+def test_a_recheck_after_an_edit_imports_neither_spacy_nor_scipy(tmp_path: Path) -> None:
+    # docs/performance.md: a re-check after one edited file must stay under a second; spaCy
+    # (~0.6 s) and scipy (~0.15 s, its array layer walks all of numpy) are not needed for it.
+    for name, extra in (("a.md", ""), ("b.md", " Check it again after a week.")):
+        (tmp_path / name).write_text(
+            "# Valves\n\nDon't over-tighten the valve; a quarter turn past snug is enough."
+            f"{extra}\n\n## Leaks\n\nA slow leak shows as bubbles in soapy water.\n",
+            encoding="utf-8",
+        )
+    (tmp_path / "study.toml").write_text(
+        '[study]\ntitle = "Valves"\n\n[[conditions]]\nname = "a"\nfiles = ["a.md"]\n\n'
+        '[[conditions]]\nname = "b"\nfiles = ["b.md"]\n',
+        encoding="utf-8",
+    )
+    probe = (
+        "import atexit, sys\n"
+        "atexit.register(lambda: sys.stderr.write("
+        "'MODULES ' + ' '.join(sorted(m for m in ('spacy', 'scipy') if m in sys.modules))))\n"
+        "from matcheck.cli import main\n"
+        "sys.argv = ['matcheck', 'check', sys.argv[1], '-f', 'json']\n"
+        "main()\n"
+    )
+    env = {"MATCHECK_CACHE_DIR": str(tmp_path / "cache"), "PATH": "/usr/bin:/bin"}
+    study = str(tmp_path / "study.toml")
+    subprocess.run([sys.executable, "-c", probe, study], capture_output=True, env=env)
+    (tmp_path / "b.md").write_text(
+        (tmp_path / "b.md").read_text(encoding="utf-8").replace("a week", "ten days"),
+        encoding="utf-8",
+    )
+    again = subprocess.run([sys.executable, "-c", probe, study], capture_output=True, env=env)
+    report = json.loads(again.stdout)
+    assert report["cache"] == {"files": 2, "from_cache": 1}
+    assert again.stderr.decode().strip().endswith("MODULES"), again.stderr.decode()[-300:]
