@@ -209,7 +209,7 @@ def check_all(
             if cache is not None:
                 from matcheck.shared import read_shared
 
-                # Each distinct lesson file once, into the cache the studies then read from.
+                # Each version two or more studies share, once, into the cache they read.
                 cache.fresh.update(read_shared(pool, paths, limits, cache))
             futures = [
                 pool.submit(_check_in_worker, path, against, tolerances, limits, cache, finish)
