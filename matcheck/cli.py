@@ -219,6 +219,8 @@ def check(
     """Check a study (or every study below a folder) as its design requires."""
     from matcheck.study import load_study
 
+    if jobs is not None and jobs < 1:  # a typo is an error even where one study needs no jobs
+        raise UsageError(f"--jobs must be at least 1, got {jobs}")
     limits = _limits(allow_outside, limit)
     cache = _cache(no_cache)
     options = RenderOptions(show_matched=all_rows)

@@ -223,6 +223,7 @@ def _bad_inputs(tmp_path: Path) -> dict[str, list[str]]:
         "names count": ["compare", *pair, "--names", "a,b,c"],
         "unknown reference": ["compare", *pair, "--reference", "nope"],
         "bad wpm": ["profile", str(TEXT_ONLY), "--wpm", "5"],
+        "no workers": ["check", str(DEMO / "study.toml"), "--jobs", "0"],
     }
 
 
@@ -238,6 +239,7 @@ CASES = [
     "names count",
     "unknown reference",
     "bad wpm",
+    "no workers",
 ]
 
 
