@@ -252,11 +252,32 @@ def check_study(
 
     if cache is None:
         return compute()
+    return cache.report(*_report_key(study, settings, limits, extra_tolerances), compute)
+
+
+def stored_study_report(
+    study: Study,
+    cache: Cache,
+    *,
+    limits: ReadLimits = DEFAULT_LIMITS,
+    extra_tolerances: Sequence[str] = (),
+) -> Report | None:
+    """:func:`check_study`'s report when ``cache`` holds it whole, else ``None``: nothing is
+    read, measured or compared."""
+    return cache.stored_report(
+        *_report_key(study, _study_settings(study), limits, extra_tolerances)
+    )
+
+
+def _report_key(
+    study: Study, settings: Settings, limits: ReadLimits, extra_tolerances: Sequence[str]
+) -> tuple[list[Path], list[Path], dict[str, object]]:
+    """What a study's cached report is keyed by: its inputs, its lessons, the parameters."""
     from matcheck.cache import fingerprint
 
     lessons = [path for condition in study.conditions for path in condition.files]
     parameters = {**fingerprint(settings, limits), "tolerances": list(extra_tolerances)}
-    return cache.report(_study_inputs(study), lessons, parameters, compute)
+    return _study_inputs(study), lessons, parameters
 
 
 def _study_inputs(study: Study) -> list[Path]:

@@ -445,32 +445,56 @@ class Cache:
         are re-checked as for a version. The paths as given are part of the key, since the
         report quotes them. A hit needs neither the lessons' profiles nor the comparison.
         """
-        from matcheck.findings import CacheUse
-
         every = {**parameters, "paths": [str(path) for path in inputs]}
         try:
             key = make_key("report", inputs, every)
         except OSError:
             return compute()
+        found = self._stored_report(key, inputs, lessons, parameters)
+        if found is not None:
+            return found
+        report = compute()
+        links = tuple(self.links.get(str(path), ()) for path in lessons)
+        self.store.save(key, ReportEntry(replace(report, cache=None), links))
+        return report
+
+    def stored_report(
+        self, inputs: Sequence[Path], lessons: Sequence[Path], parameters: dict[str, Any]
+    ) -> Report | None:
+        """The report :meth:`report` would take from the cache, or ``None`` (nothing is
+        computed)."""
+        every = {**parameters, "paths": [str(path) for path in inputs]}
+        try:
+            key = make_key("report", inputs, every)
+        except OSError:
+            return None
+        return self._stored_report(key, inputs, lessons, parameters)
+
+    def _stored_report(
+        self,
+        key: str,
+        inputs: Sequence[Path],
+        lessons: Sequence[Path],
+        parameters: dict[str, Any],
+    ) -> Report | None:
+        from matcheck.findings import CacheUse
+
         allow = bool(parameters.get("limits", {}).get("allow_outside_files", False))
         entry = self.store.load(key)
-        if (
+        if not (
             isinstance(entry, ReportEntry)
             and len(entry.links) == len(lessons)
             and all(
                 _links_hold(p, links, allow) for p, links in zip(lessons, entry.links, strict=True)
             )
         ):
-            from matcheck.inputs import note_all
+            return None
+        from matcheck.inputs import note_all
 
-            note_all(inputs)
-            _note_inputs(lessons, entry.links)
-            self.hits += len(lessons)
-            return replace(entry.report, cache=CacheUse(len(lessons), len(lessons)))
-        report = compute()
-        links = tuple(self.links.get(str(path), ()) for path in lessons)
-        self.store.save(key, ReportEntry(replace(report, cache=None), links))
-        return report
+        note_all(inputs)
+        _note_inputs(lessons, entry.links)
+        self.hits += len(lessons)
+        return replace(entry.report, cache=CacheUse(len(lessons), len(lessons)))
 
     def value(
         self,

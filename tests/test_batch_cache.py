@@ -131,3 +131,30 @@ def test_two_workers_still_refuse_every_lesson_as_the_output(
     assert done.returncode == 2, done.stderr
     assert str(lesson.name) in done.stderr and "Traceback" not in done.stderr
     assert lesson.read_bytes() == before
+
+
+def test_a_folder_the_cache_holds_starts_no_workers(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # Reports the cache holds whole are answered before any worker starts; after an edit,
+    # the studies from the first one the cache misses go to the workers, and the edit shows.
+    import matcheck.workers
+
+    folder = _folder(tmp_path / "studies")
+    first = check_folder(folder, jobs=2, against=None, tolerances=(), cache=Cache.default())[1]
+
+    def no_pool(*_args: object, **_kwargs: object) -> None:
+        raise AssertionError("a worker pool was started")
+
+    with monkeypatch.context() as patch:
+        patch.setattr(matcheck.workers, "worker_pool", no_pool)
+        again = check_folder(folder, jobs=2, against=None, tolerances=(), cache=Cache.default())[1]
+    assert _reports(again) == _reports(first)
+    assert [r.report.cache.from_cache for r in again] == [2, 2, 2]  # type: ignore[union-attr]
+
+    edited = folder / "own" / "treatment1.md"
+    edited.write_text(edited.read_text(encoding="utf-8") + "\nStore the loaf in a paper bag.\n")
+    after = check_folder(folder, jobs=2, against=None, tolerances=(), cache=Cache.default())[1]
+    assert [r.report.cache.from_cache for r in after] == [2, 1, 2]  # type: ignore[union-attr]
+    uncached = check_folder(folder, jobs=1, against=None, tolerances=())[1]
+    assert _reports(after) == _reports(uncached)
