@@ -163,6 +163,9 @@ class Document:
     headers, comments, ...) so a report can say so; ``warnings`` are problems that did not
     stop the reading; ``cannot_show`` names what this format cannot show (a PDF draws
     underline as shapes), so the measures that need it are unknown rather than zero.
+    ``outline`` holds the heading levels as the source numbered them, in rank order (a heading
+    of level ``r`` stood at ``outline[r - 1]``: Markdown's ``#`` count, Word's Heading n), so
+    that the parts of one lesson are ranked together when joined.
     """
 
     path: str
@@ -173,6 +176,7 @@ class Document:
     excluded: tuple[str, ...] = ()
     warnings: tuple[str, ...] = field(default=())
     cannot_show: frozenset[Capability] = frozenset()
+    outline: tuple[int, ...] = ()
 
     @property
     def name(self) -> str:

@@ -225,6 +225,7 @@ class DocumentBuilder:
 
     def build(self) -> Document:
         blocks = _outline_ranks(self._blocks)
+        outline = sorted({block.level for block in self._blocks if block.kind is BlockKind.HEADING})
         warnings = tuple(self._warnings)
         if self._more_warnings:
             warnings += (f"and {self._more_warnings} more warnings not shown",)
@@ -236,6 +237,7 @@ class DocumentBuilder:
             pages=self.pages,
             excluded=tuple(self._excluded),
             warnings=warnings,
+            outline=tuple(outline),
         )
 
 

@@ -5,15 +5,19 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import replace
 
-from matcheck.model import Block, Document, Figure
+from matcheck.model import Block, BlockKind, Document, Figure
 
 
 def join_documents(parts: Sequence[Document]) -> Document:
     """One document whose blocks and figures are the parts' in order, re-indexed.
 
     Locations keep their page and line (which belong to each part's own file) and get
-    block indices and paragraph numbers that run through the whole lesson.
+    block indices and paragraph numbers that run through the whole lesson. Headings are ranked
+    over the whole lesson by the levels their sources gave them: a part that starts at ``##``
+    continues the outline of a part with ``#`` instead of starting its own.
     """
+    outline = sorted({level for part in parts for level in part.outline})
+    rank = {level: index for index, level in enumerate(outline, start=1)}
     blocks: list[Block] = []
     figures: list[Figure] = []
     paragraphs = 0
@@ -38,7 +42,10 @@ def join_documents(parts: Sequence[Document]) -> Document:
                 after_paragraph=_shift(block.location.after_paragraph, before),
             )
             group = None if block.group is None else block.group + group_offset
-            blocks.append(replace(block, location=location, group=group))
+            level = block.level
+            if block.kind is BlockKind.HEADING and 0 < level <= len(part.outline):
+                level = rank[part.outline[level - 1]]
+            blocks.append(replace(block, location=location, group=group, level=level))
         for figure in part.figures:
             location = replace(
                 figure.location,
@@ -60,6 +67,7 @@ def join_documents(parts: Sequence[Document]) -> Document:
         excluded=tuple(excluded),
         warnings=tuple(warnings),
         cannot_show=frozenset().union(*(part.cannot_show for part in parts)),
+        outline=tuple(outline),
     )
 
 
