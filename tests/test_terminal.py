@@ -133,3 +133,12 @@ def test_progress_bar_only_on_a_terminal_and_after_the_delay(
         steps.step("reading b")
         time.sleep(0.3)
     assert "Checking: reading b" in long.getvalue()
+
+
+def test_measure_names_are_whole_on_a_narrow_terminal(study: Report) -> None:
+    # At 80 columns "passages_…" could not tell removed from added (a newcomer's trial): a
+    # long measure name breaks after "_" onto another line instead, and loses nothing.
+    text = _render(study, 80)
+    rows = [line for line in text.splitlines() if re.match(r" (differs|intended|matched) ", line)]
+    assert rows and not any("…" in row[:28] for row in rows)
+    assert re.search(r"passages_ +\S.*\n +removed", text)

@@ -8,7 +8,7 @@ from matcheck.findings import Finding, Pairing, Report, Status
 from matcheck.identity import finding_id
 from matcheck.measures import registry
 from matcheck.measures.base import Role
-from matcheck.report.columns import column_layout
+from matcheck.report.columns import column_layout, wrap_name
 from matcheck.report.common import (
     counts_sentence,
     describe_acceptance,
@@ -131,19 +131,19 @@ def render_table(report: Report, console: Console, options: RenderOptions | None
             padding=(0, 1, 0, 0),
         )
         table.add_column("Verdict", no_wrap=True, width=12)
-        # Numbers and ids keep their width on a narrow terminal; measure names shrink, and
-        # version names are shown whole, broken onto more header lines (report/columns.py).
-        table.add_column("Measure", no_wrap=True, overflow="ellipsis", width=layout.measure)
+        # Numbers and ids keep their width on a narrow terminal; measure and version names
+        # are shown whole, broken after "_" or "-" onto more lines where the column is
+        # narrower (report/columns.py): "passages_…" would not tell removed from added.
+        table.add_column("Measure", overflow="fold", width=layout.measure)
         for header, width in zip(layout.headers, layout.names, strict=True):
             table.add_column(esc(header), justify="right", no_wrap=True, width=width)
         table.add_column("Diff.", justify="right", no_wrap=True, width=8)
         table.add_column("Tolerance", justify="right", no_wrap=True, width=10)
         table.add_column("Id", no_wrap=True, min_width=10, max_width=10)
         for finding, is_echo, ref_cell, value_cell in rows:
-            label = f" ↳ {finding.name}" if is_echo else finding.name
             table.add_row(
                 finding.status.value,
-                label,
+                esc(wrap_name(f" ↳ {finding.name}" if is_echo else finding.name, layout.measure)),
                 ref_cell,
                 value_cell,
                 format_difference(finding, short=True),
