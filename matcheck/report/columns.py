@@ -1,10 +1,10 @@
-"""Column widths for the terminal report, so that version names are never cut short.
+"""Column widths for the terminal report, so that no name is ever cut short.
 
 A version's name is what tells two columns apart ("diagrams-bold" and "diagrams-plain"), so
 it is shown whole: on one line where the terminal is wide enough, else broken after a
-hyphen, underscore, dot, slash or space onto more lines of the header. Only the measure's
-name may end with "…" (its id is in every other format), and only when even the broken names
-leave it too little room.
+hyphen, underscore, dot, slash or space onto more lines of the header. The measure's name is
+what the column gets least room for; where it is wider, it too is broken (report/table.py),
+onto more lines of its row.
 """
 
 from __future__ import annotations
