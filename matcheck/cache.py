@@ -445,10 +445,8 @@ class Cache:
         are re-checked as for a version. The paths as given are part of the key, since the
         report quotes them. A hit needs neither the lessons' profiles nor the comparison.
         """
-        every = {**parameters, "paths": [str(path) for path in inputs]}
-        try:
-            key = make_key("report", inputs, every)
-        except OSError:
+        key = _report_key(inputs, parameters)
+        if key is None:
             return compute()
         found = self._stored_report(key, inputs, lessons, parameters)
         if found is not None:
@@ -463,12 +461,8 @@ class Cache:
     ) -> Report | None:
         """The report :meth:`report` would take from the cache, or ``None`` (nothing is
         computed)."""
-        every = {**parameters, "paths": [str(path) for path in inputs]}
-        try:
-            key = make_key("report", inputs, every)
-        except OSError:
-            return None
-        return self._stored_report(key, inputs, lessons, parameters)
+        key = _report_key(inputs, parameters)
+        return None if key is None else self._stored_report(key, inputs, lessons, parameters)
 
     def _stored_report(
         self,
@@ -527,6 +521,16 @@ class Cache:
         else:
             self.misses += files
             self.fresh.add(key)
+
+
+def _report_key(inputs: Sequence[Path], parameters: dict[str, Any]) -> str | None:
+    """A study report's key: its inputs' bytes, the parameters and the paths as given (the
+    report quotes them); ``None`` when an input cannot be read (no caching then)."""
+    every = {**parameters, "paths": [str(path) for path in inputs]}
+    try:
+        return make_key("report", inputs, every)
+    except OSError:
+        return None
 
 
 def _table_key(name: str, version: str) -> str:

@@ -85,3 +85,6 @@ def test_empty_selections() -> None:
     assert rows.rows(0, 0).dot_rows(rows).shape == (0, 2)
     assert rows.squared_norms().tolist() == [1.0, 4.0]
     assert rows.adjacent_dots().tolist() == [0.0]
+    # No entry at all still gives float64 (numpy's bincount would give int64).
+    assert rows.take([]).column_totals().dtype == np.float64
+    assert rows.adjacent_dots().dtype == np.float64

@@ -55,10 +55,28 @@ def test_a_stored_table_that_fails_its_check_is_rebuilt() -> None:
     assert store.saved[("t", tables.library_version("pytest"))] == {"pump": 1}
 
 
-def test_without_a_store_nothing_is_kept(tmp_path: Path) -> None:
+def test_without_a_store_a_table_is_built_and_nothing_is_kept() -> None:
+    # --no-cache: a store used before is dropped, and each new process builds the table.
+    store = MemoryStore()
+    tables.use_store(store)
     tables.use_store(None)
-    assert tables.table("t", "pytest", lambda: {"a": 1}, lambda v: True) == {"a": 1}
-    assert not any(tmp_path.iterdir())
+    builds: list[int] = []
+
+    def build() -> dict[str, int]:
+        builds.append(1)
+        return {"a": 1}
+
+    assert tables.table("t", "pytest", build, lambda v: True) == {"a": 1}
+    tables.forget()
+    assert tables.table("t", "pytest", build, lambda v: True) == {"a": 1}
+    assert len(builds) == 2 and store.saved == {}
+
+
+def test_a_stored_table_is_checked_for_its_kind() -> None:
+    assert tables.is_mapping({"valve": 2}, int)
+    assert not tables.is_mapping({"valve": "2"}, int)
+    assert not tables.is_mapping({"valve": True}, int)  # bool is not a syllable count
+    assert not tables.is_mapping(["valve"], str)
 
 
 def test_the_cache_keeps_tables_by_library_version(tmp_path: Path) -> None:

@@ -100,8 +100,7 @@ def analyze(document: Document) -> Analysis:
         starts = [word.start for word in words]
         sentences = []
         cursor = 0
-        spans = sentence_spans(tokens, sentence_starts(text)) if tokens else []
-        for first_token, end_token in spans:
+        for first_token, end_token in sentence_spans(tokens, sentence_starts(text)):
             last = tokens[end_token - 1]
             begin, finish = tokens[first_token].idx, last.idx + len(last.text)
             first = cursor

@@ -17,17 +17,12 @@ from pathlib import Path
 @cache
 def _lemma_table() -> dict[str, str]:
     """Lower-case word -> lemma (:func:`_read_lemma_table`), kept between runs as a table."""
-    from matcheck.language.tables import table
+    from matcheck.language.tables import is_mapping, table
 
-    return table("en-lemma-lookup", "spacy-lookups-data", _read_lemma_table, _is_str_table)
+    def check(value: object) -> bool:
+        return is_mapping(value, str)
 
-
-def _is_str_table(value: object) -> bool:
-    from itertools import islice
-
-    return isinstance(value, dict) and all(
-        isinstance(k, str) and isinstance(v, str) for k, v in islice(value.items(), 100)
-    )
+    return table("en-lemma-lookup", "spacy-lookups-data", _read_lemma_table, check)
 
 
 def _read_lemma_table() -> dict[str, str]:

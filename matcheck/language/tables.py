@@ -61,6 +61,16 @@ def table(name: str, source: str, build: Callable[[], T], check: Callable[[objec
     return value
 
 
+def is_mapping(value: object, values: type) -> bool:
+    """Whether a stored ``value`` is a dict of str to ``values`` (checked on its first 100
+    entries: enough to refuse a foreign or damaged table, cheap on a large one)."""
+    from itertools import islice
+
+    return isinstance(value, dict) and all(
+        isinstance(key, str) and type(item) is values for key, item in islice(value.items(), 100)
+    )
+
+
 def forget() -> None:
     """Drop the tables held by this process (tests)."""
     _loaded.clear()

@@ -56,9 +56,6 @@ class SparseRows:
             (dense.shape[0], dense.shape[1]),
         )
 
-    def __len__(self) -> int:
-        return self.shape[0]
-
     def row_ids(self) -> np.ndarray:
         """The row of each stored entry."""
         import numpy as np
@@ -113,10 +110,10 @@ class SparseRows:
         """The sum of all rows (a dense vector over the columns)."""
         import numpy as np
 
-        totals: np.ndarray = np.bincount(
-            self.indices, weights=self.data, minlength=self.shape[1]
-        ).astype(np.float64)
-        return totals
+        # bincount gives int64 when there is no entry at all: keep float64 throughout.
+        totals = np.bincount(self.indices, weights=self.data, minlength=self.shape[1])
+        result: np.ndarray = totals.astype(np.float64, copy=False)
+        return result
 
     def squared_norms(self) -> np.ndarray:
         """Each row's sum of squares."""
@@ -166,14 +163,11 @@ class SparseRows:
         rows = self.row_ids()
         keys = rows * width + self.indices
         # The entries of row i + 1, renumbered as row i, meet row i's on the same key.
-        upper = rows > 0
+        lower, upper = rows < n - 1, rows > 0
         _, here, there = np.intersect1d(
-            keys[rows < n - 1], keys[upper] - width, assume_unique=True, return_indices=True
+            keys[lower], keys[upper] - width, assume_unique=True, return_indices=True
         )
-        lower_data = self.data[rows < n - 1]
-        upper_data = self.data[upper]
-        lower_rows = rows[rows < n - 1]
-        result: np.ndarray = np.bincount(
-            lower_rows[here], weights=lower_data[here] * upper_data[there], minlength=n - 1
-        ).astype(np.float64)
+        products = self.data[lower][here] * self.data[upper][there]
+        sums = np.bincount(rows[lower][here], weights=products, minlength=n - 1)
+        result: np.ndarray = sums.astype(np.float64, copy=False)  # int64 when nothing meets
         return result

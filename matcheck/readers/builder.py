@@ -224,8 +224,8 @@ class DocumentBuilder:
             self._excluded.append(what)
 
     def build(self) -> Document:
-        blocks = _outline_ranks(self._blocks)
         outline = sorted({block.level for block in self._blocks if block.kind is BlockKind.HEADING})
+        blocks = _outline_ranks(self._blocks, outline)
         warnings = tuple(self._warnings)
         if self._more_warnings:
             warnings += (f"and {self._more_warnings} more warnings not shown",)
@@ -241,14 +241,13 @@ class DocumentBuilder:
         )
 
 
-def _outline_ranks(blocks: list[Block]) -> tuple[Block, ...]:
+def _outline_ranks(blocks: list[Block], levels: list[int]) -> tuple[Block, ...]:
     """Heading levels replaced by their rank among the levels the document uses.
 
     A Word lesson with Title, Heading 1 and Heading 2, a Markdown one with ``#``, ``##`` and
     ``###`` and a PDF with three heading sizes all have ranks 1, 2 and 3. A skipped level (a
     ``###`` straight under ``#``) closes up, as it does in any outline view.
     """
-    levels = sorted({block.level for block in blocks if block.kind is BlockKind.HEADING})
     if levels == list(range(1, len(levels) + 1)):
         return tuple(blocks)
     rank = {level: index for index, level in enumerate(levels, start=1)}
